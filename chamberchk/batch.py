@@ -1,0 +1,118 @@
+"""Batch driver behind ``chamberchk check``: load, evaluate, render and write, one file at a time.
+
+One bad file never stops the batch. A file's reports are all rendered in memory first and then
+written atomically, so a failure leaves no half-written report.
+"""
+
+from __future__ import annotations
+
+import traceback
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Callable
+
+from .errors import InputError
+from .flags import SEVERITIES, severity_rank
+
+EXIT_OK, EXIT_FLAGGED, EXIT_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
+
+
+@dataclass
+class Outcome:
+    """What happened to one input file."""
+
+    path: Path
+    code: int
+    messages: list[str]
+    outputs: dict[str, bytes]
+    worst: str | None = None
+
+
+def output_stems(paths: list[Path]) -> dict[Path, str]:
+    """A unique output stem per input: the file stem, with ``-2``, ``-3``... on clashes."""
+    stems: dict[Path, str] = {}
+    used: set[str] = set()
+    for p in paths:
+        stem = _safe(p.stem) or "recipe"
+        candidate, n = stem, 1
+        while candidate in used:
+            n += 1
+            candidate = f"{stem}-{n}"
+        used.add(candidate)
+        stems[p] = candidate
+    return stems
+
+
+def _safe(stem: str) -> str:
+    """Keep output names to plain characters: no separators, no leading dots."""
+    cleaned = "".join(c if c.isalnum() or c in "-_.+" else "_" for c in stem)
+    return cleaned.lstrip(".")
+
+
+def process_file(path: Path, formats: tuple[str, ...], fail_on: str, date: str | None,
+                 debug: bool = False) -> Outcome:
+    """Load, evaluate and render one recipe (no file output here)."""
+    from .evaluate import evaluate
+    from .recipe import load_recipe
+    from .report import renderer
+
+    try:
+        recipe = load_recipe(path)
+        evaluation = evaluate(recipe)
+        outputs = {}
+        for fmt in formats:
+            render = renderer(fmt)
+            outputs[fmt] = render(evaluation, date=date) if fmt in ("html", "pdf") \
+                else render(evaluation)
+    except InputError as exc:
+        return Outcome(path, EXIT_INPUT, [p.format(exc.source) for p in exc.problems], {})
+    except Exception as exc:  # a bug in chamberchk, not the user's input
+        detail = traceback.format_exc() if debug else \
+            f"{type(exc).__name__}: {exc} (rerun with --debug for the traceback)"
+        return Outcome(path, EXIT_INTERNAL, [f"{path}: internal error: {detail}"], {})
+    severities = [f.severity for f in evaluation.flags]
+    worst = max(severities, key=severity_rank) if severities else None
+    flagged = fail_on in SEVERITIES and worst is not None and \
+        severity_rank(worst) >= severity_rank(fail_on)
+    return Outcome(path, EXIT_FLAGGED if flagged else EXIT_OK, [], outputs, worst)
+
+
+def run_check(paths: list[Path], formats: tuple[str, ...], out_dir: Path, fail_on: str,
+              date: str | None, quiet: bool, progress, echo: Callable[[str], None],
+              debug: bool = False) -> int:
+    """Process every file, write reports, and return the batch's exit code."""
+    from .report import write_atomic
+
+    stems = output_stems(paths)
+    inputs = {p.resolve() for p in paths}
+    codes = []
+    with progress:
+        for path in paths:
+            outcome = process_file(path, formats, fail_on, date, debug)
+            for line in outcome.messages:
+                echo(line)
+            if outcome.outputs:
+                outcome.code = max(outcome.code, _write(outcome, out_dir / stems[path], inputs,
+                                                        write_atomic, echo))
+            if not quiet and outcome.code in (EXIT_OK, EXIT_FLAGGED):
+                worst = f"worst flag {outcome.worst}" if outcome.worst else "no flags"
+                echo(f"{path}: {worst}; wrote "
+                     f"{', '.join(f'{stems[path]}.{f}' for f in formats)} in {out_dir}")
+            codes.append(outcome.code)
+            progress.advance()
+    return max(codes, default=EXIT_OK)
+
+
+def _write(outcome: Outcome, base: Path, inputs: set[Path], write_atomic, echo) -> int:
+    targets = {fmt: base.with_name(f"{base.name}.{fmt}") for fmt in outcome.outputs}
+    clash = [t for t in targets.values() if t.resolve() in inputs]
+    if clash:
+        echo(f"{outcome.path}: refusing to overwrite the input file {clash[0]}")
+        return EXIT_INPUT
+    try:
+        for fmt, target in targets.items():
+            write_atomic(target, outcome.outputs[fmt])
+    except OSError as exc:
+        echo(f"{outcome.path}: cannot write {target}: {exc.strerror or exc}")
+        return EXIT_INPUT
+    return EXIT_OK

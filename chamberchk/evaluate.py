@@ -1,0 +1,246 @@
+"""Recipe -> Evaluation: gas kinetics per step, features followed through the steps, flags.
+
+The evaluator is the only place that knows both recipes and physics. It converts nothing: the
+recipe is already in SI floats, and the results are plain data for the writers.
+"""
+
+from __future__ import annotations
+
+import tomllib
+from dataclasses import dataclass, field
+from functools import lru_cache
+from importlib import resources
+
+import numpy as np
+
+from . import __version__
+from .flags import Flag, raise_flag
+from .physics import collision, kinetics
+from .physics.regimes import knudsen_number, regime
+from .recipe import Feature, Recipe, Step
+
+
+@dataclass
+class SpeciesResult:
+    gas: str
+    mole_fraction: float
+    mean_speed_m_s: float
+    viscosity_Pa_s: float
+    mean_free_path_m: float
+
+
+@dataclass
+class FeatureResult:
+    id: str
+    name: str
+    shape: str
+    width_m: float
+    depth_m: float
+    bottom_width_m: float | None
+    aspect_ratio: float
+    knudsen_number: float
+    regime: str
+    closed: bool = False
+    transmission_probability: float | None = None
+    knudsen_diffusivity_m2_s: float | None = None
+    molecular_diffusivity_m2_s: float | None = None
+    effective_diffusivity_m2_s: float | None = None
+    fill_time_s: float | None = None
+    fill_time_99_s: float | None = None
+    bottom_flux_ratio: float | None = None
+    bottom_flux_model: str | None = None
+    required_exposure_Pa_s: float | None = None
+    dose_margin: float | None = None
+
+
+@dataclass
+class StepResult:
+    index: int
+    name: str
+    process: str
+    duration_s: float
+    pressure_Pa: float
+    temperature_K: float
+    reactant: str
+    sticking: float
+    film_m: float
+    etch_depth_m: float
+    species: list[SpeciesResult]
+    mean_free_path_m: float
+    viscosity_Pa_s: float
+    features: list[FeatureResult]
+    flags: list[Flag] = field(default_factory=list)
+
+
+@dataclass
+class Evaluation:
+    chamberchk_version: str
+    source_file: str
+    source_sha256: str
+    recipe: dict
+    steps: list[StepResult]
+    flags: list[Flag]
+    models: list[dict]
+    gas_cautions: list[dict]
+
+
+@dataclass
+class _Geometry:
+    """A feature's current shape; film narrows it, etching deepens it."""
+
+    width_m: float
+    depth_m: float
+    bottom_width_m: float | None
+    closed: bool = False
+
+    @classmethod
+    def of(cls, f: Feature) -> "_Geometry":
+        return cls(f.width_m, f.depth_m, f.bottom_width_m)
+
+    @property
+    def narrowest_m(self) -> float:
+        return self.width_m if self.bottom_width_m is None else min(self.width_m,
+                                                                    self.bottom_width_m)
+
+    def grow(self, film_m: float, etch_depth_m: float) -> bool:
+        """Apply a step's conformal film (every wall) and etch; True when this closes it.
+
+        A conformal film of thickness t narrows every width by 2t; the field and the bottom grow
+        by the same t, so the depth measured from the field is unchanged.
+        """
+        was_closed = self.closed
+        self.width_m -= 2.0 * film_m
+        if self.bottom_width_m is not None:
+            self.bottom_width_m -= 2.0 * film_m
+        self.depth_m += etch_depth_m
+        self.closed = self.closed or self.narrowest_m <= 0.0
+        return self.closed and not was_closed
+
+
+class _Recorder:
+    """Collects the ids of the models the evaluation used, in first-use order."""
+
+    def __init__(self) -> None:
+        self.ids: dict[str, None] = {}
+
+    def use(self, *ids: str) -> None:
+        for i in ids:
+            self.ids.setdefault(i, None)
+
+
+def _species(step: Step, recipe: Recipe, rec: _Recorder, flags: list[Flag]) -> tuple[
+        list[SpeciesResult], float, float]:
+    fractions = step.mole_fractions
+    gases = [recipe.gases.get(g) for g in fractions]
+    x = np.array(list(fractions.values()))
+    m = np.array([g.molar_mass_kg_mol for g in gases])
+    t_star = step.temperature_K / np.array([g.epsilon_K for g in gases])
+    mu = np.atleast_1d(kinetics.viscosity(step.temperature_K, m, [g.sigma_m for g in gases],
+                                          [g.epsilon_K for g in gases]))
+    lam = kinetics.species_mean_free_paths(x, step.pressure_Pa, step.temperature_K, m, mu)
+    v = np.atleast_1d(kinetics.mean_speed(step.temperature_K, m))
+    rec.use("mean-speed", "viscosity-ce", "mfp-viscosity", "mfp-mixture")
+    for g, ts in zip(gases, t_star):
+        if not collision.in_range(ts):
+            lo, hi = collision.T_STAR_RANGE
+            flags.append(raise_flag(
+                "model-range", f"{g.key}: reduced temperature T* = {ts:.3g} is outside the "
+                f"{lo:g}-{hi:g} range of the collision-integral fit", step=step.name))
+    species = [SpeciesResult(g.key, float(xi), float(vi), float(mi), float(li))
+               for g, xi, vi, mi, li in zip(gases, x, v, mu, lam)]
+    mixture_mu = kinetics.mixture_viscosity(x, m, mu)
+    if len(gases) > 1:
+        rec.use("viscosity-wilke")
+    return species, float(np.dot(x, lam)), mixture_mu
+
+
+def evaluate(recipe: Recipe) -> Evaluation:
+    """Evaluate every step of a validated recipe."""
+    rec = _Recorder()
+    rec.use("knudsen-regimes")
+    geometry = {f.id: _Geometry.of(f) for f in recipe.features}
+    last_regime: dict[str, tuple[str, str]] = {}
+    all_flags: list[Flag] = []
+    steps: list[StepResult] = []
+    gases_used: dict[str, None] = {}
+    bounds = recipe.settings.bounds
+    for index, step in enumerate(recipe.steps, start=1):
+        flags: list[Flag] = []
+        species, lam, mu = _species(step, recipe, rec, flags)
+        for g, _ in step.flows_mol_s:
+            gases_used.setdefault(g, None)
+        features = []
+        for fid in step.feature_ids:
+            feat, geo = recipe.feature(fid), geometry[fid]
+            if geo.closed:
+                continue
+            kn = float(knudsen_number(lam, geo.width_m))
+            fr = FeatureResult(fid, feat.name, feat.shape, geo.width_m, geo.depth_m,
+                               geo.bottom_width_m, geo.depth_m / geo.width_m, kn,
+                               regime(kn, bounds))
+            features.append(fr)
+            prev = last_regime.get(fid)
+            if prev is not None and prev[1] != fr.regime:
+                flags.append(raise_flag(
+                    "regime-shift", f"{feat.name}: {prev[1]} in step '{prev[0]}' -> {fr.regime} "
+                    f"here (Kn = {kn:.3g})", step=step.name, feature=fid))
+            last_regime[fid] = (step.name, fr.regime)
+            if geo.grow(step.film_m, step.etch_depth_m):
+                fr.closed = True
+                where = "bottom" if geo.bottom_width_m is not None and \
+                    geo.bottom_width_m <= geo.width_m else "opening"
+                flags.append(raise_flag(
+                    "feature-closes", f"{feat.name}: the {step.film_m * 1e9:.3g} nm film of this "
+                    f"step closes the feature at its {where}", step=step.name, feature=fid))
+        result = StepResult(index, step.name, step.process, step.duration_s, step.pressure_Pa,
+                            step.temperature_K, step.reactant, step.sticking, step.film_m,
+                            step.etch_depth_m, species, lam, mu, features, flags)
+        steps.append(result)
+        all_flags.extend(flags)
+    all_flags = _gas_flags(recipe, list(gases_used), rec) + all_flags
+    return Evaluation(
+        chamberchk_version=__version__, source_file=recipe.source_file,
+        source_sha256=recipe.source_sha256,
+        recipe={"name": recipe.name, "revision": recipe.revision,
+                "description": recipe.description},
+        steps=steps, flags=all_flags, models=model_references(rec.ids),
+        gas_cautions=_gas_cautions(recipe, list(gases_used)))
+
+
+def model_references(ids) -> list[dict]:
+    """The id, title and published reference of each model used, from data/references.toml."""
+    table = _references()
+    return [{"id": i, **table[i]} for i in ids]
+
+
+@lru_cache(maxsize=1)
+def _references() -> dict:
+    text = resources.files("chamberchk").joinpath("data/references.toml").read_text("utf-8")
+    return tomllib.loads(text)["model"]
+
+
+def _gas_cautions(recipe: Recipe, gases_used: list[str]) -> list[dict]:
+    out = []
+    for key in gases_used:
+        gas = recipe.gases.get(key)
+        cautions = [recipe.gases.hazards[h].caution for h in gas.hazards
+                    if h in recipe.gases.hazards]
+        if gas.caution:
+            cautions.append(gas.caution)
+        out.append({"gas": key, "name": gas.name, "hazards": list(gas.hazards),
+                    "cautions": cautions, "data_source": gas.source})
+    return out
+
+
+def _gas_flags(recipe: Recipe, gases_used: list[str], rec: _Recorder) -> list[Flag]:
+    flags = []
+    for key in gases_used:
+        gas = recipe.gases.get(key)
+        if gas.hazards:
+            flags.append(raise_flag("gas-hazard", f"{key} ({gas.name}): "
+                                    f"{', '.join(gas.hazards)}", feature=None))
+        if gas.lj_estimated:
+            rec.use("lj-estimate")
+            flags.append(raise_flag("estimated-gas-data", f"{key} ({gas.name}): Lennard-Jones "
+                                    "parameters are estimates"))
+    return flags
