@@ -5,16 +5,17 @@ Conventions: electron temperature ``Te`` and ion temperature ``Ti`` are given in
 unit charge), the sheath voltage ``V0`` is the potential drop from the sheath edge to the wafer
 [V], densities are number densities [m^-3]. Constants come from ``scipy.constants`` (CODATA).
 
-Equation numbers of Lieberman & Lichtenberg (2005) are quoted **from memory** (no copy of the
-book was opened); the formulas themselves were re-derived and are checked numerically in the
-tests (Child law by integrating Poisson's equation).
+Section and equation numbers of Lieberman & Lichtenberg (2005) are quoted **from memory** (no
+copy of the book was found with the search tool); the formulas themselves were re-derived and
+are checked numerically in the tests (both Child laws by integrating Poisson's equation).
 
 References
 ----------
 .. [LL2005] M. A. Lieberman, A. J. Lichtenberg, *Principles of Plasma Discharges and Materials
-   Processing*, 2nd ed., Wiley (2005): Debye length sec. 2.4; Bohm criterion and presheath
-   sec. 6.2; Child law sheath sec. 6.3 (eqs. about 6.3.12-6.3.14); collisional (mobility-limited)
-   sheath sec. 6.5; argon ion mean free path ``lambda_i[cm] = 1/(330 p[Torr])`` (all from memory).
+   Processing*, 2nd ed., Wiley (2005): Debye length ch. 2; Bohm criterion and presheath
+   density drop ch. 6 (sec. 6.2); Child law sheath ch. 6 (sec. 6.3, eqs. about 6.3.12-6.3.14);
+   collisional (mobility-limited) Child law ch. 6; argon ion mean free path
+   ``lambda_i[cm] = 1/(330 p[Torr])``. All locations from memory, not verified.
 .. [DV1963] W. D. Davis, T. A. Vanderslice, "Ion energies at the cathode of a glow discharge",
    Phys. Rev. 131, 219-228 (1963) (charge-exchange energy distribution; from memory).
 .. [GJV1992] R. A. Gottscho, C. W. Jurgensen, D. J. Vitkavage, "Microscopic uniformity in plasma
@@ -51,7 +52,7 @@ DEFAULT_ION_TEMPERATURE_EV = _c.k * 300.0 / _E
 #: Validity ranges per kernel, as data: quantity name -> (low, high), inclusive. The quantities
 #: are dimensionless groups that the caller computes (see ``validity_cautions``).
 #: - voltage_ratio V0/Te >= 10: Child-law sheaths need V0 >> Te (common practice).
-#: - ion_to_electron_temperature Ti/Te <= 0.1: Bohm speed for cold ions [LL2005 sec. 6.2].
+#: - ion_to_electron_temperature Ti/Te <= 0.1: Bohm speed for cold ions (common practice).
 #: - collisionality s/lambda_i: see COLLISIONALITY_BOUNDS; the angular-spread estimate is kept to
 #:   s/lambda_i <= 30 where its quadrature is checked (tests).
 #: - angular_spread_rad <= pi/4: the equivalent-Gaussian slope model is only meant for beams.
@@ -106,7 +107,7 @@ def debye_length(electron_density_m3, electron_temperature_eV):
 
     References
     ----------
-    [LL2005] sec. 2.4 (equation number from memory).
+    [LL2005] ch. 2 (location from memory).
 
     Examples
     --------
@@ -242,8 +243,8 @@ def collisional_sheath_thickness(edge_density_m3, electron_temperature_eV, sheat
 
     References
     ----------
-    [LL2005] sec. 6.5, collisional sheath, variable-mobility Child law (section and equation
-    number from memory); reference-values G7-04.
+    [LL2005] ch. 6, collisional sheath, variable-mobility Child law (location from memory);
+    reference-values G7-04.
     """
     te = np.asarray(electron_temperature_eV, dtype=float)
     v0 = np.asarray(sheath_voltage_V, dtype=float)
@@ -277,7 +278,7 @@ def ion_neutral_mean_free_path(cross_section_m2, gas_density_m3=None, *, pressur
 
     References
     ----------
-    [LL2005] sec. 3.1 (definition ``lambda = 1/(n sigma)``; from memory).
+    [LL2005] ch. 3 (definition ``lambda = 1/(n sigma)``; location from memory).
 
     Examples
     --------
@@ -377,7 +378,8 @@ def ion_angular_spread(collisionality_ratio, sheath_voltage_V, electron_temperat
       reach the wafer with the remaining potential only, hence at wider angles.
 
     Elastic (non-charge-exchange) scattering is ignored, so the spread is underestimated where
-    it matters (Ar+/Ar: isotropic elastic is 10-30 % of the total at 1-100 eV, Phelps 1994).
+    it matters (Ar+/Ar: isotropic elastic is 36, 21 and 2.5 % of the total at 1, 10 and
+    100 eV, Phelps 1994 fits in ``data/ion_cross_sections.toml``).
 
     Parameters
     ----------
