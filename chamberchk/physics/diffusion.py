@@ -45,6 +45,12 @@ from .collision import T_STAR_RANGE, omega11
 K_B = constants.k
 N_A = constants.N_A
 
+
+def _arr(x):
+    """Float array view of a scalar or array_like input."""
+    return np.asarray(x, dtype=float)
+
+
 # ---- validity data (read by the evaluator to raise cautions) --------------------------------
 #: Reduced temperatures k T / eps12 over which Omega_D is fitted [PPO2001 eq. 11-3.6].
 CHAPMAN_ENSKOG_T_STAR_RANGE = T_STAR_RANGE
@@ -89,14 +95,14 @@ def perimeter_per_area(shape, width_m):
     except KeyError:
         raise ValueError(f"unknown feature shape {shape!r}; expected one of "
                          f"{sorted(PERIMETER_FACTOR)}") from None
-    return (factor / np.asarray(width_m, dtype=float))[()]
+    return (factor / _arr(width_m))[()]
 
 
 def binary_reduced_temperature(temperature_K, epsilon1_K, epsilon2_K):
     """Reduced temperature of a pair, ``T* = T / sqrt(eps1 eps2)`` [-] (check it against
     ``CHAPMAN_ENSKOG_T_STAR_RANGE``)."""
-    return (np.asarray(temperature_K, dtype=float)
-            / np.sqrt(np.asarray(epsilon1_K, dtype=float) * np.asarray(epsilon2_K, dtype=float)))[()]
+    return (_arr(temperature_K)
+            / np.sqrt(_arr(epsilon1_K) * _arr(epsilon2_K)))[()]
 
 
 def binary_diffusivity(temperature_K, pressure_Pa, molar_mass1_kg_mol, molar_mass2_kg_mol,
@@ -139,15 +145,15 @@ def binary_diffusivity(temperature_K, pressure_Pa, molar_mass1_kg_mol, molar_mas
     >>> round(float(d) * 1e4, 4)   # cm2/s; measured 0.190 (Marrero & Mason 1972)
     0.1881
     """
-    t = np.asarray(temperature_K, dtype=float)
-    m1 = np.asarray(molar_mass1_kg_mol, dtype=float) / N_A
-    m2 = np.asarray(molar_mass2_kg_mol, dtype=float) / N_A
+    t = _arr(temperature_K)
+    m1 = _arr(molar_mass1_kg_mol) / N_A
+    m2 = _arr(molar_mass2_kg_mol) / N_A
     m12 = m1 * m2 / (m1 + m2)
-    sigma12 = 0.5 * (np.asarray(sigma1_m, dtype=float) + np.asarray(sigma2_m, dtype=float))
+    sigma12 = 0.5 * (_arr(sigma1_m) + _arr(sigma2_m))
     om = omega11(binary_reduced_temperature(t, epsilon1_K, epsilon2_K))
     kt = K_B * t
     d = (3.0 / 16.0) * np.sqrt(2.0 * np.pi * kt**3 / m12) / (
-        np.asarray(pressure_Pa, dtype=float) * np.pi * sigma12**2 * om)
+        _arr(pressure_Pa) * np.pi * sigma12**2 * om)
     return d[()]
 
 
@@ -181,8 +187,8 @@ def mixture_diffusivity_blanc(mole_fractions_others, binary_diffusivities):
     >>> float(mixture_diffusivity_blanc([0.5, 0.5], [1.0e-5, 1.0e-5]))
     1e-05
     """
-    x = np.asarray(mole_fractions_others, dtype=float)
-    d = np.asarray(binary_diffusivities, dtype=float)
+    x = _arr(mole_fractions_others)
+    d = _arr(binary_diffusivities)
     total = np.sum(x, axis=-1)
     if np.any(total <= 0.0):
         raise ValueError("no partner species with a positive mole fraction; for a pure gas pass "
@@ -213,8 +219,8 @@ def knudsen_diffusivity(transmission_probability, mean_speed_m_s, depth_m):
     float or ndarray
         D_K [m2/s].
     """
-    return (np.asarray(transmission_probability, dtype=float) * np.asarray(mean_speed_m_s, dtype=float)
-            * np.asarray(depth_m, dtype=float) / 4.0)[()]
+    return (_arr(transmission_probability) * _arr(mean_speed_m_s)
+            * _arr(depth_m) / 4.0)[()]
 
 
 def knudsen_diffusivity_tube(diameter_m, mean_speed_m_s):
@@ -230,7 +236,7 @@ def knudsen_diffusivity_tube(diameter_m, mean_speed_m_s):
     mean_speed_m_s : float or array_like
         Mean molecular speed [m/s].
     """
-    return (np.asarray(diameter_m, dtype=float) * np.asarray(mean_speed_m_s, dtype=float) / 3.0)[()]
+    return (_arr(diameter_m) * _arr(mean_speed_m_s) / 3.0)[()]
 
 
 def bosanquet(d_knudsen, d_molecular):
@@ -252,8 +258,8 @@ def bosanquet(d_knudsen, d_molecular):
     >>> float(bosanquet(2.0e-5, 2.0e-5))
     1e-05
     """
-    dk = np.asarray(d_knudsen, dtype=float)
-    dm = np.asarray(d_molecular, dtype=float)
+    dk = _arr(d_knudsen)
+    dm = _arr(d_molecular)
     return (dk * dm / (dk + dm))[()]
 
 
@@ -278,8 +284,8 @@ def fill_time(depth_m, diffusivity_m2_s):
     float or ndarray
         tau [s].
     """
-    length = np.asarray(depth_m, dtype=float)
-    return (4.0 * length**2 / (np.pi**2 * np.asarray(diffusivity_m2_s, dtype=float)))[()]
+    length = _arr(depth_m)
+    return (4.0 * length**2 / (np.pi**2 * _arr(diffusivity_m2_s)))[()]
 
 
 def _closed_end_fraction(u):
@@ -306,8 +312,8 @@ def closed_end_concentration_ratio(depth_m, diffusivity_m2_s, time_s):
     depth_m, diffusivity_m2_s, time_s : float or array_like
         Depth L [m], diffusivity D [m2/s], time since the mouth was filled t [s].
     """
-    u = np.asarray(diffusivity_m2_s, dtype=float) * np.asarray(time_s, dtype=float) / np.asarray(
-        depth_m, dtype=float) ** 2
+    u = _arr(diffusivity_m2_s) * _arr(time_s) / _arr(
+        depth_m) ** 2
     return np.vectorize(_closed_end_fraction, otypes=[float])(u)[()]
 
 
@@ -345,11 +351,11 @@ def fill_time_to_fraction(depth_m, diffusivity_m2_s, fraction=0.99):
     float or ndarray
         Time [s].
     """
-    frac = np.asarray(fraction, dtype=float)
+    frac = _arr(fraction)
     uniq, inverse = np.unique(frac, return_inverse=True)
     u = np.array([_dimensionless_time_to_fraction(f) for f in uniq])[inverse].reshape(frac.shape)
-    length = np.asarray(depth_m, dtype=float)
-    return (u * length**2 / np.asarray(diffusivity_m2_s, dtype=float))[()]
+    length = _arr(depth_m)
+    return (u * length**2 / _arr(diffusivity_m2_s))[()]
 
 
 def effective_sticking(sticking, sticking_correction=True):
@@ -359,7 +365,7 @@ def effective_sticking(sticking, sticking_correction=True):
     for the depleted one-way flux towards an absorbing wall; otherwise plain ``s``. The two agree
     to 0.5 % below s = 0.01.
     """
-    s = np.asarray(sticking, dtype=float)
+    s = _arr(sticking)
     return (2.0 * s / (2.0 - s) if sticking_correction else s)[()]
 
 
@@ -386,9 +392,9 @@ def thiele_modulus(depth_m, width_m, shape, diffusivity_m2_s, mean_speed_m_s, st
     sticking_correction : bool, optional
         Use the Motz-Wise correction (default) or plain s.
     """
-    k_v = (effective_sticking(sticking, sticking_correction) * np.asarray(mean_speed_m_s, dtype=float)
+    k_v = (effective_sticking(sticking, sticking_correction) * _arr(mean_speed_m_s)
            / 4.0 * perimeter_per_area(shape, width_m))
-    return (np.asarray(depth_m, dtype=float) * np.sqrt(k_v / np.asarray(diffusivity_m2_s, dtype=float)))[()]
+    return (_arr(depth_m) * np.sqrt(k_v / _arr(diffusivity_m2_s)))[()]
 
 
 def dead_end_density_ratio(thiele, bottom_biot=0.0):
@@ -406,8 +412,8 @@ def dead_end_density_ratio(thiele, bottom_biot=0.0):
     bottom_biot : float or array_like, optional
         Bottom Biot number h L / D [-]. Default 0 (non-reactive bottom).
     """
-    phi = np.asarray(thiele, dtype=float)
-    bi = np.asarray(bottom_biot, dtype=float)
+    phi = _arr(thiele)
+    bi = _arr(bottom_biot)
     e2 = np.exp(-2.0 * phi)
     with np.errstate(invalid="ignore", divide="ignore"):
         sinh_over = np.where(phi > 0.0, -np.expm1(-2.0 * phi) / np.where(phi > 0.0, phi, 1.0), 2.0)
@@ -447,6 +453,6 @@ def reaction_diffusion_bottom_ratio(depth_m, width_m, shape, diffusivity_m2_s, m
     """
     phi = thiele_modulus(depth_m, width_m, shape, diffusivity_m2_s, mean_speed_m_s, sticking,
                          sticking_correction)
-    h = effective_sticking(sticking, sticking_correction) * np.asarray(mean_speed_m_s, dtype=float) / 4.0
-    biot = h * np.asarray(depth_m, dtype=float) / np.asarray(diffusivity_m2_s, dtype=float)
+    h = effective_sticking(sticking, sticking_correction) * _arr(mean_speed_m_s) / 4.0
+    biot = h * _arr(depth_m) / _arr(diffusivity_m2_s)
     return dead_end_density_ratio(phi, biot if reactive_bottom else 0.0)

@@ -38,6 +38,11 @@ from .diffusion import perimeter_per_area
 K_B = constants.k
 N_A = constants.N_A
 
+
+def _arr(x):
+    """Float array view of a scalar or array_like input."""
+    return np.asarray(x, dtype=float)
+
 #: Saturated areal density of chemisorbed precursor (metal) atoms used when a recipe gives none:
 #: 4 per nm2, the baseline "areal number density of metal atoms" of [YVetal2022] (value read in
 #: the data set record). A TMA/H2O growth of ~1.1 A per cycle at ~3 g/cm3 corresponds to
@@ -78,9 +83,9 @@ def impingement_flux(pressure_Pa, temperature_K, molar_mass_kg_mol):
     >>> round(float(impingement_flux(1.0, 300.0, 28.0134e-3)) / 1e22, 4)   # N2
     2.8741
     """
-    m = np.asarray(molar_mass_kg_mol, dtype=float) / N_A
-    return (np.asarray(pressure_Pa, dtype=float)
-            / np.sqrt(2.0 * np.pi * m * K_B * np.asarray(temperature_K, dtype=float)))[()]
+    m = _arr(molar_mass_kg_mol) / N_A
+    return (_arr(pressure_Pa)
+            / np.sqrt(2.0 * np.pi * m * K_B * _arr(temperature_K)))[()]
 
 
 def effective_aspect_ratio(shape, depth_m, width_m):
@@ -95,7 +100,7 @@ def effective_aspect_ratio(shape, depth_m, width_m):
     depth_m, width_m : float or array_like
         Depth and via diameter or trench width [m].
     """
-    return (np.asarray(depth_m, dtype=float) * perimeter_per_area(shape, width_m) / 4.0)[()]
+    return (_arr(depth_m) * perimeter_per_area(shape, width_m) / 4.0)[()]
 
 
 def gordon_exposure(aspect_ratio, site_density_m2, temperature_K, molar_mass_kg_mol):
@@ -131,8 +136,8 @@ def gordon_exposure(aspect_ratio, site_density_m2, temperature_K, molar_mass_kg_
     >>> round(float(gordon_exposure(0.0, 4e18, 423.15, 72.09e-3)) * 1e4, 3)   # flat, TMA monomer
     2.652
     """
-    a = np.asarray(aspect_ratio, dtype=float)
-    flat = np.asarray(site_density_m2, dtype=float) / impingement_flux(1.0, temperature_K,
+    a = _arr(aspect_ratio)
+    flat = _arr(site_density_m2) / impingement_flux(1.0, temperature_K,
                                                                         molar_mass_kg_mol)
     return (flat * (1.0 + 4.75 * a + 1.5 * a**2))[()]
 
@@ -151,8 +156,8 @@ def dose_margin(partial_pressure_Pa, duration_s, required_exposure_Pa_s):
     required_exposure_Pa_s : float or array_like
         Required exposure, e.g. from ``gordon_exposure`` [Pa s].
     """
-    return (np.asarray(partial_pressure_Pa, dtype=float) * np.asarray(duration_s, dtype=float)
-            / np.asarray(required_exposure_Pa_s, dtype=float))[()]
+    return (_arr(partial_pressure_Pa) * _arr(duration_s)
+            / _arr(required_exposure_Pa_s))[()]
 
 
 def langmuir_exposure(pressure_Pa, duration_s):
@@ -170,5 +175,5 @@ def langmuir_exposure(pressure_Pa, duration_s):
     >>> round(float(langmuir_exposure(133.322368, 1e-6)), 6)
     1.0
     """
-    return (np.asarray(pressure_Pa, dtype=float) * np.asarray(duration_s, dtype=float)
+    return (_arr(pressure_Pa) * _arr(duration_s)
             / LANGMUIR_PA_S)[()]
