@@ -18,6 +18,7 @@ from .flags import Flag, raise_flag
 from .physics import collision, kinetics
 from .physics.regimes import knudsen_number, regime
 from .recipe import Feature, Recipe, Step
+from .transport import StepGas, feature_transport, molecular_diffusivity
 
 
 @dataclass
@@ -169,6 +170,7 @@ def evaluate(recipe: Recipe) -> Evaluation:
         species, lam, mu = _species(step, recipe, rec, flags)
         for g, _ in step.flows_mol_s:
             gases_used.setdefault(g, None)
+        gas = _step_gas(step, recipe, species)
         features = []
         for fid in step.feature_ids:
             feat, geo = recipe.feature(fid), geometry[fid]
@@ -178,6 +180,7 @@ def evaluate(recipe: Recipe) -> Evaluation:
             fr = FeatureResult(fid, feat.name, feat.shape, geo.width_m, geo.depth_m,
                                geo.bottom_width_m, geo.depth_m / geo.width_m, kn,
                                regime(kn, bounds))
+            _transport(fr, feat, step, gas, recipe, rec, flags)
             features.append(fr)
             prev = last_regime.get(fid)
             if prev is not None and prev[1] != fr.regime:
@@ -230,6 +233,49 @@ def _gas_cautions(recipe: Recipe, gases_used: list[str]) -> list[dict]:
         out.append({"gas": key, "name": gas.name, "hazards": list(gas.hazards),
                     "cautions": cautions, "data_source": gas.source})
     return out
+
+
+def _step_gas(step: Step, recipe: Recipe, species: list[SpeciesResult]) -> StepGas:
+    reactant = recipe.gases.get(step.reactant)
+    fractions = step.mole_fractions
+    partners = [(recipe.gases.get(g), x) for g, x in fractions.items() if g != step.reactant]
+    speed = next(s.mean_speed_m_s for s in species if s.gas == step.reactant)
+    d_m = molecular_diffusivity(reactant, partners, step.pressure_Pa, step.temperature_K)
+    return StepGas(step.pressure_Pa, step.temperature_K, step.duration_s, step.process,
+                   step.sticking, reactant, fractions[step.reactant], speed, d_m)
+
+
+def _transport(fr: FeatureResult, feat: Feature, step: Step, gas: StepGas, recipe: Recipe,
+               rec: _Recorder, flags: list[Flag]) -> None:
+    """Fill the feature's transport fields and raise the transport flags."""
+    settings = recipe.settings
+    t = feature_transport(feat.shape, fr.width_m, fr.depth_m, fr.bottom_width_m,
+                          fr.knudsen_number, gas, settings.bounds, settings.site_density_m2)
+    rec.use(*t.models)
+    for name in ("transmission_probability", "knudsen_diffusivity_m2_s",
+                 "molecular_diffusivity_m2_s", "effective_diffusivity_m2_s", "fill_time_s",
+                 "fill_time_99_s", "bottom_flux_ratio", "bottom_flux_model",
+                 "required_exposure_Pa_s", "dose_margin"):
+        setattr(fr, name, getattr(t, name))
+    where = dict(step=step.name, feature=feat.id)
+    for caution in t.cautions:
+        flags.append(raise_flag("model-range", f"{feat.name}: {caution}", **where))
+    if t.fill_time_99_s > step.duration_s:
+        flags.append(raise_flag(
+            "fill-slower-than-step", f"{feat.name}: {step.reactant} needs "
+            f"{t.fill_time_99_s:.3g} s to reach 99 % at the bottom; the step lasts "
+            f"{step.duration_s:.3g} s", **where))
+    if step.sticking > 0 and t.bottom_flux_ratio < settings.coverage_warning:
+        severity = "critical" if t.bottom_flux_ratio < settings.coverage_critical else "warning"
+        flags.append(raise_flag(
+            "poor-bottom-coverage", f"{feat.name}: bottom flux {100 * t.bottom_flux_ratio:.3g} % "
+            f"of the opening's (sticking {step.sticking:g}, AR {fr.aspect_ratio:.3g}; thresholds "
+            f"{100 * settings.coverage_warning:g} % warning, {100 * settings.coverage_critical:g}"
+            " % critical)", severity=severity, **where))
+    if t.dose_margin is not None and t.dose_margin < 1.0:
+        flags.append(raise_flag(
+            "dose-short", f"{feat.name}: {step.reactant} exposure is {t.dose_margin:.3g} times "
+            f"the {t.required_exposure_Pa_s:.3g} Pa s needed to saturate it", **where))
 
 
 def _gas_flags(recipe: Recipe, gases_used: list[str], rec: _Recorder) -> list[Flag]:

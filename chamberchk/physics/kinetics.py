@@ -40,7 +40,7 @@ def mean_speed(temperature_K, molar_mass_kg_mol):
 
     Examples
     --------
-    >>> round(mean_speed(273.15, 39.948e-3), 1)
+    >>> round(float(mean_speed(273.15, 39.948e-3)), 1)
     380.5
     """
     return np.sqrt(8.0 * R * np.asarray(temperature_K) / (np.pi * np.asarray(molar_mass_kg_mol)))[()]
@@ -68,8 +68,8 @@ def viscosity(temperature_K, molar_mass_kg_mol, sigma_m, epsilon_K):
 
     Examples
     --------
-    >>> round(viscosity(300.0, 28.0134e-3, 3.798e-10, 71.4) * 1e6, 2)  # N2, Svehla parameters
-    17.86
+    >>> round(float(viscosity(300.0, 28.0134e-3, 3.798e-10, 71.4)) * 1e6, 2)  # N2, Svehla LJ
+    17.68
     """
     t = np.asarray(temperature_K, dtype=float)
     m = np.asarray(molar_mass_kg_mol, dtype=float) / N_A
