@@ -49,7 +49,7 @@ def _safe(stem: str) -> str:
     return cleaned.lstrip(".")
 
 
-def process_file(path: Path, formats: tuple[str, ...], fail_on: str, date: str | None,
+def process_file(path: Path, formats: tuple[str, ...], fail_on: str, options: dict,
                  debug: bool = False) -> Outcome:
     """Load, evaluate and render one recipe (no file output here)."""
     from .evaluate import evaluate
@@ -59,11 +59,7 @@ def process_file(path: Path, formats: tuple[str, ...], fail_on: str, date: str |
     try:
         recipe = load_recipe(path)
         evaluation = evaluate(recipe)
-        outputs = {}
-        for fmt in formats:
-            render = renderer(fmt)
-            outputs[fmt] = render(evaluation, date=date) if fmt in ("html", "pdf") \
-                else render(evaluation)
+        outputs = {fmt: renderer(fmt)(evaluation, **options) for fmt in formats}
     except InputError as exc:
         return Outcome(path, EXIT_INPUT, [p.format(exc.source) for p in exc.problems], {})
     except Exception as exc:  # a bug in chamberchk, not the user's input
@@ -78,7 +74,7 @@ def process_file(path: Path, formats: tuple[str, ...], fail_on: str, date: str |
 
 
 def run_check(paths: list[Path], formats: tuple[str, ...], out_dir: Path, fail_on: str,
-              date: str | None, quiet: bool, progress, echo: Callable[[str], None],
+              options: dict, quiet: bool, progress, echo: Callable[[str], None],
               debug: bool = False) -> int:
     """Process every file, write reports, and return the batch's exit code."""
     from .report import write_atomic
@@ -88,7 +84,7 @@ def run_check(paths: list[Path], formats: tuple[str, ...], out_dir: Path, fail_o
     codes = []
     with progress:
         for path in paths:
-            outcome = process_file(path, formats, fail_on, date, debug)
+            outcome = process_file(path, formats, fail_on, options, debug)
             for line in outcome.messages:
                 echo(line)
             if outcome.outputs:

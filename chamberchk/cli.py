@@ -111,14 +111,17 @@ def cli(ctx: click.Context, debug: bool) -> None:
               show_default=True, help="Exit 1 when a flag of this severity or higher is raised.")
 @click.option("--date", default=None, help="A date to print in the report header (none by "
               "default, so reports are reproducible).")
+@click.option("--paper", type=click.Choice(["a4", "letter"]), default="a4", show_default=True,
+              help="Paper size of PDF reports.")
 @click.option("--quiet", "-q", is_flag=True, help="No progress or summary lines on stderr.")
-def check(files, formats, out, fail_on, date, quiet):
+def check(files, formats, out, fail_on, date, paper, quiet):
     """Evaluate recipe FILES and write their reports."""
     from .batch import run_check
 
     paths = expand_inputs(files)
     debug = click.get_current_context().find_root().obj["debug"]
-    code = run_check(paths, _formats(formats), _out_dir(out), fail_on, date, quiet,
+    code = run_check(paths, _formats(formats), _out_dir(out), fail_on,
+                     {"date": date, "paper": paper}, quiet,
                      progress=Progress(len(paths), quiet), echo=_err, debug=debug)
     sys.exit(code)
 

@@ -18,6 +18,7 @@ from .flags import Flag, raise_flag
 from .physics import collision, kinetics
 from .physics.regimes import knudsen_number, regime
 from .recipe import Feature, Recipe, Step
+from .plasma import SheathResult, evaluate_sheath, ion_bottom_fraction
 from .transport import StepGas, feature_transport, molecular_diffusivity
 
 
@@ -52,6 +53,8 @@ class FeatureResult:
     bottom_flux_model: str | None = None
     required_exposure_Pa_s: float | None = None
     dose_margin: float | None = None
+    ion_bottom_fraction: float | None = None
+    ion_to_neutral_bottom_over_top: float | None = None
 
 
 @dataclass
@@ -71,6 +74,7 @@ class StepResult:
     viscosity_Pa_s: float
     features: list[FeatureResult]
     flags: list[Flag] = field(default_factory=list)
+    plasma: SheathResult | None = None
 
 
 @dataclass
@@ -81,6 +85,7 @@ class Evaluation:
     recipe: dict
     steps: list[StepResult]
     flags: list[Flag]
+    regime_bounds: list[float]
     models: list[dict]
     gas_cautions: list[dict]
 
@@ -171,6 +176,7 @@ def evaluate(recipe: Recipe) -> Evaluation:
         for g, _ in step.flows_mol_s:
             gases_used.setdefault(g, None)
         gas = _step_gas(step, recipe, species)
+        sheath = _sheath(step, recipe, species, rec, flags) if step.plasma else None
         features = []
         for fid in step.feature_ids:
             feat, geo = recipe.feature(fid), geometry[fid]
@@ -181,6 +187,8 @@ def evaluate(recipe: Recipe) -> Evaluation:
                                geo.bottom_width_m, geo.depth_m / geo.width_m, kn,
                                regime(kn, bounds))
             _transport(fr, feat, step, gas, recipe, rec, flags)
+            if sheath is not None:
+                _ions(fr, feat, step, sheath, recipe, flags)
             features.append(fr)
             prev = last_regime.get(fid)
             if prev is not None and prev[1] != fr.regime:
@@ -197,7 +205,8 @@ def evaluate(recipe: Recipe) -> Evaluation:
                     f"step closes the feature at its {where}", step=step.name, feature=fid))
         result = StepResult(index, step.name, step.process, step.duration_s, step.pressure_Pa,
                             step.temperature_K, step.reactant, step.sticking, step.film_m,
-                            step.etch_depth_m, species, lam, mu, features, flags)
+                            step.etch_depth_m, species, lam, mu, features, flags,
+                            plasma=sheath)
         steps.append(result)
         all_flags.extend(flags)
     all_flags = _gas_flags(recipe, list(gases_used), rec) + all_flags
@@ -206,7 +215,8 @@ def evaluate(recipe: Recipe) -> Evaluation:
         source_sha256=recipe.source_sha256,
         recipe={"name": recipe.name, "revision": recipe.revision,
                 "description": recipe.description},
-        steps=steps, flags=all_flags, models=model_references(rec.ids),
+        steps=steps, flags=all_flags, regime_bounds=list(bounds.as_array()),
+        models=model_references(rec.ids),
         gas_cautions=_gas_cautions(recipe, list(gases_used)))
 
 
@@ -276,6 +286,49 @@ def _transport(fr: FeatureResult, feat: Feature, step: Step, gas: StepGas, recip
         flags.append(raise_flag(
             "dose-short", f"{feat.name}: {step.reactant} exposure is {t.dose_margin:.3g} times "
             f"the {t.required_exposure_Pa_s:.3g} Pa s needed to saturate it", **where))
+
+
+def _sheath(step: Step, recipe: Recipe, species: list[SpeciesResult], rec: _Recorder,
+            flags: list[Flag]) -> SheathResult:
+    plasma = step.plasma
+    fractions = step.mole_fractions
+    ion = plasma.ion
+    if ion is None:
+        inert = [g for g in fractions if recipe.gases.get(g).inert]
+        ion = max(inert, key=lambda g: recipe.gases.get(g).molar_mass_kg_mol) if inert else \
+            max(fractions, key=lambda g: (fractions[g], g))
+    gas = recipe.gases.get(ion)
+    mu = next(s.viscosity_Pa_s for s in species if s.gas == ion)
+    d = float(kinetics.equivalent_diameter(mu, step.temperature_K, gas.molar_mass_kg_mol))
+    result = evaluate_sheath(plasma, ion, gas.molar_mass_kg_mol, d, step.pressure_Pa,
+                             step.temperature_K)
+    rec.use("sheath-child", "ion-cross-sections", "ion-angles")
+    for caution in result.cautions:
+        flags.append(raise_flag("model-range", f"plasma: {caution}", step=step.name))
+    if result.sheath_regime == "collisional":
+        flags.append(raise_flag(
+            "sheath-collisional", f"sheath {result.sheath_thickness_m * 1e3:.3g} mm is "
+            f"{result.collisionality:.3g} ion mean free paths thick; ion spread about "
+            f"{result.ion_angular_spread_deg:.2g} degrees", step=step.name))
+    return result
+
+
+def _ions(fr: FeatureResult, feat: Feature, step: Step, sheath: SheathResult, recipe: Recipe,
+          flags: list[Flag]) -> None:
+    """Ion flux at the bottom (line-of-sight shadowing) against the neutral flux there."""
+    fr.ion_bottom_fraction = ion_bottom_fraction(fr.aspect_ratio, sheath.ion_angular_spread_deg,
+                                                 feat.shape)
+    if fr.bottom_flux_ratio is None or fr.bottom_flux_ratio <= 0:
+        return
+    fr.ion_to_neutral_bottom_over_top = fr.ion_bottom_fraction / fr.bottom_flux_ratio
+    limit = recipe.settings.neutral_starved_ratio
+    if step.process == "etch" and fr.ion_to_neutral_bottom_over_top > limit:
+        flags.append(raise_flag(
+            "neutral-starved", f"{feat.name}: at the bottom the ion-to-neutral flux ratio is "
+            f"{fr.ion_to_neutral_bottom_over_top:.3g} times its value at the top (ions reach "
+            f"{100 * fr.ion_bottom_fraction:.3g} %, {step.reactant} "
+            f"{100 * fr.bottom_flux_ratio:.3g} %; threshold {limit:g})",
+            step=step.name, feature=feat.id))
 
 
 def _gas_flags(recipe: Recipe, gases_used: list[str], rec: _Recorder) -> list[Flag]:

@@ -17,6 +17,7 @@ from pathlib import Path
 from typing import Any
 
 from .errors import Collector, InputError, Problem
+from .plasma import Plasma
 from .gases import GAS_FIELDS, HAZARD_CLASSES, Gas, GasTable, gas_from_row, shipped_table
 from .physics.regimes import RegimeBounds
 from .units import UnitProblem, parse_quantity
@@ -69,6 +70,7 @@ class Step:
     film_m: float
     etch_depth_m: float
     feature_ids: tuple[str, ...]
+    plasma: Plasma | None = None
 
     @property
     def mole_fractions(self) -> dict[str, float]:
@@ -95,6 +97,7 @@ class Settings:
     coverage_warning: float = 0.5           # bottom_flux_ratio below this: warning
     coverage_critical: float = 0.1          # below this: critical
     residence_times: float = 3.0            # a step should last this many residence times
+    neutral_starved_ratio: float = 2.0      # ion/neutral at the bottom over the top: warning
 
 
 @dataclass(frozen=True)
@@ -223,10 +226,13 @@ TOP_KEYS = ("format", "recipe", "chamber", "feature", "step", "gases", "settings
 RECIPE_KEYS = ("name", "revision", "description")
 FEATURE_KEYS = ("id", "name", "shape", "width", "depth", "bottom_width")
 STEP_KEYS = ("name", "process", "duration", "pressure", "temperature", "gases", "reactant",
-             "sticking", "film", "etch_depth", "features")
+             "sticking", "film", "etch_depth", "features", "plasma")
+PLASMA_KEYS = ("electron_density", "electron_temperature", "sheath_voltage", "ion",
+               "ion_cross_section")
 CHAMBER_KEYS = ("volume", "gap", "pump_speed", "path")
 SETTINGS_KEYS = ("continuum_max", "slip_max", "transition_max", "site_density",
-                 "coverage_warning", "coverage_critical", "residence_times")
+                 "coverage_warning", "coverage_critical", "residence_times",
+                 "neutral_starved_ratio")
 
 #: element shape -> (required length fields, optional length fields)
 PATH_SHAPES: dict[str, tuple[tuple[str, ...], tuple[str, ...]]] = {
@@ -290,10 +296,11 @@ def _load_settings(w: _Walker, doc: dict) -> Settings:
     if None not in (cw, cc) and cc > cw:
         w.errors.add("settings.coverage_critical", "must not exceed coverage_warning")
     rt = w.number(s, "residence_times", "settings", d.residence_times, 0.0, 100.0)
+    ns = w.number(s, "neutral_starved_ratio", "settings", d.neutral_starved_ratio, 1.0, 1e3)
     sd = w.quantity(s, "site_density", "settings", "areal_density")
-    if None in (c, sl, t, cw, cc, rt):
+    if None in (c, sl, t, cw, cc, rt, ns):
         return d
-    return Settings(RegimeBounds(c, sl, t), sd, cw, cc, rt)
+    return Settings(RegimeBounds(c, sl, t), sd, cw, cc, rt, ns)
 
 
 def _load_features(w: _Walker, doc: dict) -> list[Feature]:
@@ -402,12 +409,38 @@ def _load_steps(w: _Walker, doc: dict, table: GasTable, feature_ids: list[str]) 
         elif flows is not None and "reactant" not in s:
             reactant = _default_reactant(flows, table)
         ids = _step_features(w, s, path, feature_ids)
+        plasma = _load_plasma(w, s, path, table, flows)
         if None in (name, process, duration, pressure, temperature, sticking, film, etch, flows,
-                    reactant, ids):
+                    reactant, ids) or plasma is False:
             continue
         steps.append(Step(name, process, duration, pressure, temperature, tuple(flows.items()),
-                          reactant, sticking, film, etch, ids))
+                          reactant, sticking, film, etch, ids, plasma))
     return steps
+
+
+def _load_plasma(w: _Walker, s: dict, path: str, table: GasTable,
+                 flows: dict[str, float] | None) -> Plasma | None | bool:
+    """The optional ``[step.plasma]`` block; False when it has errors."""
+    p = w.table(s, "plasma", path)
+    if p is None:
+        return False if "plasma" in s else None
+    where = _join(path, "plasma")
+    w.keys(p, where, PLASMA_KEYS)
+    n = w.quantity(p, "electron_density", where, "density", required=True)
+    te = w.quantity(p, "electron_temperature", where, "energy_eV", required=True)
+    v0 = w.quantity(p, "sheath_voltage", where, "voltage", required=True)
+    sigma = w.quantity(p, "ion_cross_section", where, "area")
+    ion = w.text(p, "ion", where)
+    ok = None not in (n, te, v0) and ("ion_cross_section" not in p or sigma is not None)
+    if ion is not None:
+        key = table.get(ion).key if ion in table else None
+        if flows is not None and key not in flows:
+            w.errors.add(_join(where, "ion"), f"{ion!r} is not among the step's gases")
+            ok = False
+        ion = key
+    elif "ion" in p:
+        ok = False
+    return Plasma(n, te, v0, ion, sigma) if ok else False
 
 
 def _step_features(w: _Walker, s: dict, path: str, feature_ids: list[str]

@@ -17,8 +17,8 @@ from .gases import Gas
 from .physics import diffusion, exposure, transmission
 from .physics.regimes import RegimeBounds
 
-BALLISTIC = "ballistic transport and reaction (integral equations)"
-REACTION_DIFFUSION = "reaction-diffusion (Thiele modulus, Bosanquet D)"
+BALLISTIC = "ballistic"            # integral equations, free-molecular
+REACTION_DIFFUSION = "reaction-diffusion"   # Thiele modulus with the Bosanquet D
 
 
 @dataclass(frozen=True)

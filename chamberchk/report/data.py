@@ -47,12 +47,12 @@ def _documents(evaluations) -> dict:
     return document(evaluations)
 
 
-def to_json(evaluations) -> bytes:
+def to_json(evaluations, **_options) -> bytes:
     text = json.dumps(_documents(evaluations), indent=2, ensure_ascii=False, allow_nan=False)
     return (text + "\n").encode("utf-8")
 
 
-def to_toml(evaluations) -> bytes:
+def to_toml(evaluations, **_options) -> bytes:
     import tomli_w
 
     doc = to_plain(_documents(evaluations), drop_none=True)

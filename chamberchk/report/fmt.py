@@ -28,6 +28,8 @@ def sig(x: float | None, digits: int = 3) -> str:
 def _scaled(x: float | None, scales: list[tuple[float, str]]) -> str:
     if x is None:
         return "n/a"
+    if x == 0:
+        return f"0 {scales[0][1]}"
     for factor, unit in scales:
         if abs(x) >= factor:
             return f"{sig(x / factor)} {unit}"

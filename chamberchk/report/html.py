@@ -35,7 +35,7 @@ def context(evaluation, date: str | None = None) -> dict:
             "grid": grid, "notice": NOTICE, "date": date, "charts": charts_for(doc)}
 
 
-def to_html(evaluation, date: str | None = None) -> bytes:
+def to_html(evaluation, date: str | None = None, **_options) -> bytes:
     if isinstance(evaluation, (list, tuple)):
         raise ValueError("HTML reports are written one per recipe")
     html = environment().get_template("report.html.j2").render(**context(evaluation, date))
