@@ -49,6 +49,14 @@ def _safe(stem: str) -> str:
     return cleaned.lstrip(".")
 
 
+def _flag_code(flags, fail_on: str) -> tuple[int, str | None]:
+    severities = [f.severity for f in flags]
+    worst = max(severities, key=severity_rank) if severities else None
+    flagged = fail_on in SEVERITIES and worst is not None and \
+        severity_rank(worst) >= severity_rank(fail_on)
+    return (EXIT_FLAGGED if flagged else EXIT_OK), worst
+
+
 def process_file(path: Path, formats: tuple[str, ...], fail_on: str, options: dict,
                  debug: bool = False) -> Outcome:
     """Load, evaluate and render one recipe (no file output here)."""
@@ -66,11 +74,8 @@ def process_file(path: Path, formats: tuple[str, ...], fail_on: str, options: di
         detail = traceback.format_exc() if debug else \
             f"{type(exc).__name__}: {exc} (rerun with --debug for the traceback)"
         return Outcome(path, EXIT_INTERNAL, [f"{path}: internal error: {detail}"], {})
-    severities = [f.severity for f in evaluation.flags]
-    worst = max(severities, key=severity_rank) if severities else None
-    flagged = fail_on in SEVERITIES and worst is not None and \
-        severity_rank(worst) >= severity_rank(fail_on)
-    return Outcome(path, EXIT_FLAGGED if flagged else EXIT_OK, [], outputs, worst)
+    code, worst = _flag_code(evaluation.flags, fail_on)
+    return Outcome(path, code, [], outputs, worst)
 
 
 def run_check(paths: list[Path], formats: tuple[str, ...], out_dir: Path, fail_on: str,
@@ -112,3 +117,42 @@ def _write(outcome: Outcome, base: Path, inputs: set[Path], write_atomic, echo) 
         echo(f"{outcome.path}: cannot write {target}: {exc.strerror or exc}")
         return EXIT_INPUT
     return EXIT_OK
+
+
+def run_compare(old: Path, new: Path, formats: tuple[str, ...], out_dir: Path, fail_on: str,
+                options: dict, quiet: bool, echo: Callable[[str], None],
+                debug: bool = False) -> int:
+    """Evaluate two revisions, compare them and write one comparison report per format."""
+    from .compare import compare
+    from .evaluate import evaluate
+    from .recipe import load_recipe
+    from .report import write_atomic
+    from .report.comparison import RENDERERS
+
+    recipes, problems = [], []
+    for path in (old, new):
+        try:
+            recipes.append(load_recipe(path))
+        except InputError as exc:
+            problems += [p.format(exc.source) for p in exc.problems]
+    if problems:
+        for line in problems:
+            echo(line)
+        return EXIT_INPUT
+    try:
+        comparison = compare(recipes[0], evaluate(recipes[0]), recipes[1], evaluate(recipes[1]))
+        outputs = {fmt: RENDERERS[fmt](comparison, **options) for fmt in formats}
+    except Exception as exc:  # a bug
+        echo(traceback.format_exc() if debug else
+             f"chamberchk: internal error: {type(exc).__name__}: {exc} "
+             "(rerun with --debug for the traceback)")
+        return EXIT_INTERNAL
+    stem = f"{_safe(old.stem) or 'old'}__{_safe(new.stem) or 'new'}"
+    outcome = Outcome(new, EXIT_OK, [], outputs)
+    if _write(outcome, out_dir / stem, {old.resolve(), new.resolve()}, write_atomic, echo):
+        return EXIT_INPUT
+    code, worst = _flag_code(comparison.flags, fail_on)
+    if not quiet:
+        echo(f"{old} -> {new}: {len(comparison.crossings)} regime crossing(s), worst flag "
+             f"{worst or 'none'}; wrote {', '.join(f'{stem}.{f}' for f in formats)} in {out_dir}")
+    return code

@@ -127,6 +127,28 @@ def check(files, formats, out, fail_on, date, paper, quiet):
 
 
 @cli.command()
+@click.argument("old")
+@click.argument("new")
+@click.option("--format", "formats", default="json,html", show_default=True,
+              help="Comma-separated report formats: json, toml, html, pdf.")
+@click.option("--out", "out", default="reports", show_default=True,
+              help="Folder for the comparison, <old stem>__<new stem>.<ext>.")
+@click.option("--fail-on", type=click.Choice(SEVERITY_CHOICES), default="critical",
+              show_default=True, help="Exit 1 when a flag of this severity or higher is raised "
+              "(a regime crossing is a warning).")
+@click.option("--date", default=None, help="A date to print in the report header.")
+@click.option("--paper", type=click.Choice(["a4", "letter"]), default="a4", show_default=True)
+@click.option("--quiet", "-q", is_flag=True, help="No summary line on stderr.")
+def compare(old, new, formats, out, fail_on, date, paper, quiet):
+    """Compare two revisions OLD and NEW of a recipe: changed inputs, regime crossings."""
+    from .batch import run_compare
+
+    code = run_compare(Path(old), Path(new), _formats(formats), _out_dir(out), fail_on,
+                       {"date": date, "paper": paper}, quiet, echo=_err)
+    sys.exit(code)
+
+
+@cli.command()
 def gases():
     """List the gases chamberchk knows, with their hazard classes."""
     from .gases import shipped_table

@@ -16,7 +16,7 @@ import numpy as np
 from . import __version__
 from .flags import Flag, raise_flag
 from .physics import collision, kinetics
-from .physics.regimes import knudsen_number, regime
+from .physics.regimes import crossing_pressures, knudsen_number, regime
 from .recipe import Feature, Recipe, Step
 from .plasma import SheathResult, evaluate_sheath, ion_bottom_fraction
 from .transport import StepGas, feature_transport, molecular_diffusivity
@@ -43,6 +43,9 @@ class FeatureResult:
     knudsen_number: float
     regime: str
     closed: bool = False
+    window_pressures_Pa: list[float] = field(default_factory=list)
+    nearest_bound_factor: float | None = None
+    nearest_bound: str | None = None
     transmission_probability: float | None = None
     knudsen_diffusivity_m2_s: float | None = None
     molecular_diffusivity_m2_s: float | None = None
@@ -86,6 +89,7 @@ class Evaluation:
     steps: list[StepResult]
     flags: list[Flag]
     regime_bounds: list[float]
+    feature_history: list[dict]
     models: list[dict]
     gas_cautions: list[dict]
 
@@ -186,6 +190,7 @@ def evaluate(recipe: Recipe) -> Evaluation:
             fr = FeatureResult(fid, feat.name, feat.shape, geo.width_m, geo.depth_m,
                                geo.bottom_width_m, geo.depth_m / geo.width_m, kn,
                                regime(kn, bounds))
+            _window(fr, step.pressure_Pa, bounds)
             _transport(fr, feat, step, gas, recipe, rec, flags)
             if sheath is not None:
                 _ions(fr, feat, step, sheath, recipe, flags)
@@ -216,8 +221,33 @@ def evaluate(recipe: Recipe) -> Evaluation:
         recipe={"name": recipe.name, "revision": recipe.revision,
                 "description": recipe.description},
         steps=steps, flags=all_flags, regime_bounds=list(bounds.as_array()),
+        feature_history=feature_history(recipe, steps),
         models=model_references(rec.ids),
         gas_cautions=_gas_cautions(recipe, list(gases_used)))
+
+
+HISTORY_KEYS = ("width_m", "depth_m", "aspect_ratio", "knudsen_number", "regime",
+                "fill_time_99_s", "bottom_flux_ratio")
+
+
+def feature_history(recipe: Recipe, steps: list[StepResult]) -> list[dict]:
+    """Each feature through the steps, and the steps where its transport changes most."""
+    out = []
+    for feat in recipe.features:
+        rows = [{"step": s.name, "index": s.index, **{k: getattr(f, k) for k in HISTORY_KEYS}}
+                for s in steps for f in s.features if f.id == feat.id]
+        changes = {"regime": [b["step"] for a, b in zip(rows, rows[1:])
+                              if a["regime"] != b["regime"]]}
+        for key, label in (("fill_time_99_s", "fill_time"), ("bottom_flux_ratio", "coverage"),
+                           ("aspect_ratio", "aspect_ratio")):
+            pairs = [(abs(np.log(b[key] / a[key])), b["step"]) for a, b in zip(rows, rows[1:])
+                     if a[key] and b[key] and a[key] > 0 and b[key] > 0]
+            best = max(pairs, default=None, key=lambda t: t[0])
+            changes[label] = None if best is None or best[0] < 1e-12 else {
+                "step": best[1], "factor": float(np.exp(best[0]))}
+        out.append({"id": feat.id, "name": feat.name, "shape": feat.shape, "rows": rows,
+                    "largest_change": changes})
+    return out
 
 
 def model_references(ids) -> list[dict]:
@@ -243,6 +273,20 @@ def _gas_cautions(recipe: Recipe, gases_used: list[str]) -> list[dict]:
         out.append({"gas": key, "name": gas.name, "hazards": list(gas.hazards),
                     "cautions": cautions, "data_source": gas.source})
     return out
+
+
+BOUND_NAMES = ("continuum/slip", "slip/transition", "transition/free-molecular")
+
+
+def _window(fr: FeatureResult, pressure_Pa: float, bounds) -> None:
+    """Pressures where the feature's Kn meets each regime bound, and the nearest one as a factor
+    (Kn p is constant for a fixed gas, temperature and width)."""
+    pressures = crossing_pressures(pressure_Pa, fr.knudsen_number, bounds)
+    factors = np.maximum(pressure_Pa / pressures, pressures / pressure_Pa)
+    k = int(np.argmin(factors))
+    fr.window_pressures_Pa = [float(p) for p in pressures]
+    fr.nearest_bound_factor = float(factors[k])
+    fr.nearest_bound = BOUND_NAMES[k]
 
 
 def _step_gas(step: Step, recipe: Recipe, species: list[SpeciesResult]) -> StepGas:

@@ -23,6 +23,11 @@ RULES: dict[str, Rule] = {
         "The gas in this feature behaves differently from the previous step: transport and "
         "coverage scale with pressure and width in a different way across a regime bound, so "
         "results tuned at one step do not carry over."),
+    "regime-crossing": Rule(
+        "warning",
+        "The change moves this feature into another flow regime: transport, fill time and "
+        "coverage respond differently to pressure, temperature and width than before. Requalify "
+        "the step rather than carrying over results from the old recipe."),
     "feature-closes": Rule(
         "critical",
         "The film deposited so far closes the feature; later steps cannot reach below the "

@@ -94,6 +94,44 @@ def percent(x):
     return "n/a" if x is None else f"{sig(100 * x)} %"
 
 
+def volume(v):
+    return "n/a" if v is None else f"{sig(v * 1e3)} L"
+
+
+def text(value):
+    if value is None:
+        return "absent"
+    if isinstance(value, list):
+        return ", ".join(text(v) for v in value) or "none"
+    if isinstance(value, dict):
+        return "; ".join(f"{k} {text(v)}" for k, v in value.items())
+    if isinstance(value, float):
+        return sig(value)
+    return str(value)
+
+
+_KINDS = {"pressure": pressure, "time": time, "temperature": temperature, "length": length,
+          "flow": flow, "number": sig, "volume": volume, "speed": pump_speed, "text": text}
+
+
+_SUFFIXES = ("_Pa_m3_s", "_m3_s", "_m2_s", "_m_s", "_Pa", "_K", "_s", "_m3", "_m")
+
+
+def field_label(name: str) -> str:
+    """``pressure_Pa`` -> ``pressure``; ``feature_ids`` -> ``features``."""
+    for suffix in _SUFFIXES:
+        if name.endswith(suffix):
+            name = name[: -len(suffix)]
+            break
+    return {"feature_ids": "features"}.get(name, name).replace("_", " ")
+
+
+def by_kind(value, kind: str) -> str:
+    """Format ``value`` with the formatter for ``kind`` (comparison tables); None is 'absent'."""
+    return "absent" if value is None else _KINDS.get(kind, text)(value)
+
+
 FILTERS = {name: globals()[name] for name in (
+    "volume", "text", "by_kind", "field_label",
     "sig", "length", "pressure", "temperature", "time", "speed", "diffusivity", "flow",
     "throughput", "pump_speed", "viscosity", "exposure", "number", "percent")}
