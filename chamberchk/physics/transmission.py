@@ -36,6 +36,7 @@ from functools import lru_cache
 from typing import Callable
 
 import numpy as np
+from scipy import sparse
 
 #: L/R of an open tube over which ``tube_transmission`` was checked against the Clausing table
 #: (and a refined solution) to better than 1e-4 absolute.
@@ -50,7 +51,7 @@ TAPER_RATIO_RANGE = (0.25, 1.5)
 #: Sticking (reaction) probability per wall or bottom collision.
 STICKING_RANGE = (0.0, 1.0)
 
-_GAUSS4 = np.polynomial.legendre.leggauss(4)
+_GAUSS = {n: np.polynomial.legendre.leggauss(n) for n in (2, 4)}
 
 
 # --------------------------------------------------------------------------------------------
@@ -321,6 +322,7 @@ class _Geometry:
     area: Callable              # area of that disc / segment (per unit length for a trench)
     element_area: Callable      # wall area per unit meridian length at radius r
     direct: Callable            # view factor opening (a = 1) -> bottom (a = ab) at depth L
+    straight_moments: Callable  # u -> (int_0^u k, int_0^u t k) for straight walls, radius 1
 
 
 def _disc_to_disc(L, ab):
@@ -333,32 +335,21 @@ def _strip_to_strip(L, ab):
 
 
 _AXISYMMETRIC = _Geometry(_ring_kernel, _disc_view, lambda a: math.pi * a * a,
-                          lambda r: 2.0 * math.pi * r, _disc_to_disc)
+                          lambda r: 2.0 * math.pi * r, _disc_to_disc,
+                          lambda u: (_TUBE.p0(u), _TUBE.p1(u)))
 _PLANE = _Geometry(_strip_kernel, _strip_view, lambda a: 2.0 * a, lambda r: 2.0 + 0.0 * r,
-                   _strip_to_strip)
+                   _strip_to_strip,     # half-width 1 is a slot of gap 2
+                   lambda u: (_SLOT.p0(0.5 * u), 2.0 * _SLOT.p1(0.5 * u)))
 
 
-def _fine_grid(nodes, size):
-    """Gauss points (4 per sub-interval, sub-intervals <= size(x)) on the elements of nodes."""
-    pts, wts = [], []
-    g, gw = _GAUSS4
-    for a, b in zip(nodes[:-1], nodes[1:]):
-        m = max(1, math.ceil((b - a) / size(0.5 * (a + b))))
-        edges = np.linspace(a, b, m + 1)
-        half = 0.5 * np.diff(edges)
-        pts.append((0.5 * (edges[1:] + edges[:-1]))[:, None] + half[:, None] * g)
-        wts.append(half[:, None] * gw)
-    return np.concatenate(pts, axis=None), np.concatenate(wts, axis=None)
-
-
-def _hat_matrix(nodes, t):
-    """Values of the piecewise-linear basis functions of ``nodes`` at points t."""
+def _hat_matrix(nodes, t, col0, ncols):
+    """Sparse values of the piecewise-linear basis functions of ``nodes`` at points t
+    (columns col0 onwards of a matrix with ncols columns)."""
     j = np.clip(np.searchsorted(nodes, t) - 1, 0, len(nodes) - 2)
     u = (t - nodes[j]) / (nodes[j + 1] - nodes[j])
-    H = np.zeros((len(t), len(nodes)))
-    H[np.arange(len(t)), j] = 1.0 - u
-    H[np.arange(len(t)), j + 1] = u
-    return H
+    i = np.arange(len(t))
+    return sparse.csr_matrix((np.concatenate([1.0 - u, u]), (np.concatenate([i, i]),
+                              col0 + np.concatenate([j, j + 1]))), shape=(len(t), ncols))
 
 
 def _one_sided(length, h_first, ratio, h_max):
@@ -373,15 +364,42 @@ def _one_sided(length, h_first, ratio, h_max):
     return np.array(x + [length])
 
 
-@dataclass
-class _Surface:
-    nodes: np.ndarray           # coarse nodes in the surface parameter (z on wall, rho on bottom)
-    point: Callable             # parameter -> (r, z, n_r, n_z), n the normal into the gas
-    jac: float                  # meridian length per unit parameter
-    size: Callable              # largest quadrature sub-interval at a parameter value
+def _wall_nodes(L, k, h_first, ratio, cap, max_nodes=600):
+    """Nodes along a wall of radius r(z) = 1 + k z, spacing h_first r at both ends growing by
+    ``ratio`` and never above cap r(z), so a strongly tapered wall is graded geometrically.
+    The cap is relaxed so that at most about ``max_nodes`` nodes are made (very long walls)."""
+    r = lambda z: 1.0 + k * z                  # noqa: E731
+    n_est = L / (cap * min(1.0, r(L))) if k == 0.0 else math.log(r(L)) / (cap * k)
+    cap *= max(1.0, abs(n_est) / max_nodes)
+    fronts = []
+    for start, sign in ((0.0, 1.0), (L, -1.0)):
+        z, h, pts = start, h_first * r(start), [start]
+        while sign * (0.5 * L - z) > h:
+            z += sign * h
+            pts.append(z)
+            h = min(h * ratio, cap * r(z))
+        fronts.append(pts)
+    top, bottom = fronts
+    if len(top) > 1 and len(bottom) > 1:        # drop the front node closest to the middle
+        mid_gap = bottom[-1] - top[-1]
+        if mid_gap < 0.5 * min(top[-1] - top[-2], bottom[-2] - bottom[-1]):
+            bottom.pop()
+    return np.array(top + bottom[::-1])
 
 
-_MESH = dict(h_first=0.05, ratio=1.2, cap=1.0)
+def _gauss_on(a, b, m, n=4):
+    """n-point Gauss rule on m equal sub-intervals of each [a_i, b_i]: points, weights, u."""
+    g, gw = _GAUSS[n]
+    k = (np.arange(m)[:, None] + 0.5 * (g + 1.0)).ravel() / m          # local coordinate u
+    u = np.broadcast_to(k, (len(a), n * m))
+    w = np.broadcast_to(np.tile(gw, m) / (2.0 * m), (len(a), n * m)) * (b - a)[:, None]
+    return a[:, None] + (b - a)[:, None] * u, w, u
+
+
+#: Mesh of the radiosity solver, in units of the local radius (chosen by convergence scans):
+#: first spacing at rim, foot and corner, growth ratio, largest element, quadrature sub-interval
+#: near a target, and the distance (in element lengths) inside which that finer rule is used.
+_MESH = dict(h_first=0.05, ratio=1.2, cap=1.0, sub=0.5, near=2.0)
 
 
 def _profile_flux(geo: _Geometry, L: float, ab: float, sticking: float | None) -> float:
@@ -390,57 +408,92 @@ def _profile_flux(geo: _Geometry, L: float, ab: float, sticking: float | None) -
     ``sticking=None``: open feature, the bottom plane is a perfect sink and walls re-emit all.
     Otherwise a closed feature whose walls and bottom stick with that probability. Lengths are
     scaled by the opening radius (via) or half-width (trench): the opening is [0, 1] at z = 0.
+    Hat-function collocation; the kernel moments over each element use 4 Gauss points, or
+    sub-intervals of ``sub`` local radii for elements near the target; row sums are corrected
+    to their exact values (1 minus the view of the opening and exit); one Richardson step.
     """
     k = (ab - 1.0) / L
     cw = 1.0 / math.hypot(1.0, k)
     rmin = min(1.0, ab)
-    h0, ratio, cap = _MESH["h_first"] * rmin, _MESH["ratio"], _MESH["cap"]
-
-    def wall_point(z):
-        one = np.ones_like(z)
-        return 1.0 + k * z, z, -cw * one, k * cw * one
-
-    def bottom_point(r):
-        return r, np.full_like(r, L), np.zeros_like(r), -np.ones_like(r)
-
-    surfaces = [_Surface(_graded_nodes(L, h0, ratio, cap * rmin), wall_point, 1.0 / cw,
-                         lambda z: 0.5 * cw * (1.0 + k * z))]
+    m = _MESH
+    wall = _wall_nodes(L, k, m["h_first"], m["ratio"], m["cap"])
+    surf = [(_bisect(wall), lambda z: (1.0 + k * z, z, -cw + 0.0 * z, k * cw + 0.0 * z), 1 / cw)]
     if sticking is not None:
-        bottom = ab - _one_sided(ab, h0, ratio, 0.25 * ab)[::-1]
-        surfaces.append(_Surface(bottom, bottom_point, 1.0, lambda r: 0.25 * ab))
-    fine = [_bisect(s.nodes) for s in surfaces]
-    # targets: all fine-level nodes; quadrature on the fine-level elements
-    tg = [np.concatenate(c) for c in zip(*(s.point(f) for s, f in zip(surfaces, fine)))]
-    qs = [_fine_grid(f, s.size) for s, f in zip(surfaces, fine)]
-    qp = [np.concatenate(c) for c in zip(*(s.point(q) for s, (q, _) in zip(surfaces, qs)))]
-    qw = np.concatenate([w * s.jac for s, (_, w) in zip(surfaces, qs)])
-    Kq = geo.kernel(*(v[:, None] for v in tg), *(v[None, :] for v in qp)) * qw
+        bottom = ab - _one_sided(ab, m["h_first"] * rmin, m["ratio"], 0.25 * ab)[::-1]
+        surf.append((_bisect(bottom), lambda r: (r, L + 0.0 * r, 0.0 * r, -1.0 + 0.0 * r), 1.0))
+    tg = [np.concatenate(c) for c in zip(*(pt(f) for f, pt, _ in surf))]
+    # elements of the fine level, over all surfaces
+    ea = np.concatenate([f[:-1] for f, _, _ in surf])
+    eb = np.concatenate([f[1:] for f, _, _ in surf])
+    sid = np.concatenate([np.full(len(f) - 1, i) for i, (f, _, _) in enumerate(surf)])
+    jac = np.array([j for _, _, j in surf])[sid]
+
+    def points(par, i_surf):
+        out = [np.empty_like(par) for _ in range(4)]
+        for i, (_, pt, _) in enumerate(surf):
+            sel = i_surf == i
+            for o, v in zip(out, pt(par[sel])):
+                o[sel] = v
+        return out
+
+    def moments(t_idx, e_idx, nsub, npts):
+        """int k dl and int k u dl over elements e_idx seen from targets t_idx (paired)."""
+        q, w, u = _gauss_on(ea[e_idx], eb[e_idx], nsub, npts)
+        qp = points(q.ravel(), np.repeat(sid[e_idx], q.shape[1]))
+        kv = geo.kernel(*(v[t_idx][:, None] for v in tg),
+                        *(v.reshape(q.shape) for v in qp)) * w * jac[e_idx, None]
+        return kv.sum(axis=1), (kv * u).sum(axis=1)
+
+    nt, ne = len(tg[0]), len(ea)
+    nwt, nw = len(surf[0][0]), len(surf[0][0]) - 1
+    M0, M1 = np.zeros((nt, ne)), np.zeros((nt, ne))
+    pa, pb = points(ea, sid), points(eb, sid)
+    length = np.hypot(pb[0] - pa[0], pb[1] - pa[1])
+    dist = np.minimum(np.hypot(tg[0][:, None] - pa[0], tg[1][:, None] - pa[1]),
+                      np.hypot(tg[0][:, None] - pb[0], tg[1][:, None] - pb[1])) / length
+    todo = np.ones((nt, ne), bool)
+    if k == 0.0:                                # straight wall: wall-wall moments in closed form
+        zt = tg[1][:nwt, None]
+        P0a, P1a = geo.straight_moments(ea[:nw] - zt)
+        P0b, P1b = geo.straight_moments(eb[:nw] - zt)
+        M0[:nwt, :nw] = P0b - P0a
+        M1[:nwt, :nw] = (P1b - P1a + (zt - ea[:nw]) * M0[:nwt, :nw]) / (eb[:nw] - ea[:nw])
+        todo[:nwt, :nw] = False
+    # quadrature: 2 Gauss points far away, 4 within 6 element lengths, and sub-intervals of
+    # `sub` local radii within `near` element lengths (the kernel varies on the radius scale)
+    nsub = np.maximum(1, np.ceil(length / (m["sub"] * np.minimum(pa[0], pb[0]).clip(rmin))))
+    for sel, npts in ((todo & (dist >= 6.0), 2), (todo & (dist < 6.0) & (dist >= m["near"]), 4)):
+        ti, ei = np.nonzero(sel)
+        M0[ti, ei], M1[ti, ei] = moments(ti, ei, 1, npts)
+    ti, ei = np.nonzero(todo & (dist < m["near"]))
+    for n in np.unique(nsub[ei]):               # a handful of distinct sub-interval counts
+        sel = nsub[ei] == n
+        M0[ti[sel], ei[sel]], M1[ti[sel], ei[sel]] = moments(ti[sel], ei[sel], int(n), 4)
     r_t, z_t, nr_t, nz_t = tg
-    exact = 1.0 - geo.view(r_t, np.maximum(z_t, 1e-9), nr_t, -nz_t, 1.0)   # exact row sums
+    source = geo.view(r_t, np.maximum(z_t, 1e-9), nr_t, -nz_t, 1.0)
+    exact = 1.0 - source
     if sticking is None:
         exact -= geo.view(r_t, np.maximum(L - z_t, 1e-9), nr_t, nz_t, ab)
-    defect = exact - Kq.sum(axis=1)
-    source = geo.view(r_t, np.maximum(z_t, 1e-9), nr_t, -nz_t, 1.0)
+    defect = exact - M0.sum(axis=1)
+    # wall elements -> bottom plane
+    q, w, u = _gauss_on(ea[:nw], eb[:nw], 1)
+    qr, qz, qnr, qnz = (v.reshape(q.shape) for v in points(q.ravel(), np.zeros(q.size, int)))
+    f = geo.view(qr, np.maximum(L - qz, 1e-9), qnr, qnz, ab) * geo.element_area(qr) * w / cw
+    B0, B1 = f.sum(axis=1), (f * u).sum(axis=1)
     keep = 1.0 - (sticking or 0.0)
-    # rate from each wall quadrature point to the bottom plane
-    qr, qz, qnr, qnz = (v[: len(qs[0][0])] for v in qp)
-    to_bottom = (geo.view(qr, np.maximum(L - qz, 1e-9), qnr, qnz, ab)
-                 * qw[: len(qr)] * geo.element_area(qr))
-    offsets = np.cumsum([0] + [len(f) for f in fine])
     results = []
-    for level in (0, 1):                        # coarse (every other node), then fine
-        cols = [f[::2] if level == 0 else f for f in fine]
-        rows = np.concatenate([np.arange(o, o + len(f))[:: 2 - level]
-                               for o, f in zip(offsets, fine)])
-        Phi = np.zeros((len(qw), sum(len(c) for c in cols)))
-        r0 = c0 = 0
-        for c, (q, _) in zip(cols, qs):
-            Phi[r0:r0 + len(q), c0:c0 + len(c)] = _hat_matrix(c, q)
-            r0, c0 = r0 + len(q), c0 + len(c)
-        A = Kq[rows] @ Phi
+    for step in (2, 1):                         # coarse level (every other node), then fine
+        rows = np.concatenate([o + np.arange(0, len(fn), step) for o, fn in zip(
+            np.cumsum([0] + [len(fn) for fn, _, _ in surf[:-1]]), (fn for fn, _, _ in surf))])
+        cols = [fn[::step] for fn, _, _ in surf]
+        c0 = np.cumsum([0] + [len(c) for c in cols])
+        Ha, Hb = (sparse.vstack([_hat_matrix(c, x[sid == i], c0[i], c0[-1])
+                                 for i, c in enumerate(cols)]).tocsc() for x in (ea, eb))
+        A = np.asarray((Ha.T @ (M0[rows] - M1[rows]).T + Hb.T @ M1[rows].T).T)
         A[np.arange(len(rows)), np.arange(len(rows))] += defect[rows]
         J = np.linalg.solve(np.eye(len(rows)) - keep * A, keep * source[rows])
-        results.append(geo.area(1.0) * geo.direct(L, ab) + to_bottom @ (Phi[: len(qr)] @ J))
+        to_bottom = Ha[:nw].T @ (B0 - B1) + Hb[:nw].T @ B1
+        results.append(geo.area(1.0) * geo.direct(L, ab) + to_bottom @ J)
     return (4.0 * results[1] - results[0]) / 3.0
 
 
