@@ -94,6 +94,9 @@ class Evaluation:
     gas_cautions: list[dict]
 
 
+CLOSED_BELOW_M = 1e-12
+
+
 @dataclass
 class _Geometry:
     """A feature's current shape; film narrows it, etching deepens it."""
@@ -123,7 +126,9 @@ class _Geometry:
         if self.bottom_width_m is not None:
             self.bottom_width_m -= 2.0 * film_m
         self.depth_m += etch_depth_m
-        self.closed = self.closed or self.narrowest_m <= 0.0
+        # below a hundredth of an angstrom the gap is shut (and float round-off of repeated
+        # film subtraction would otherwise leave a 1e-24 m sliver)
+        self.closed = self.closed or self.narrowest_m <= CLOSED_BELOW_M
         return self.closed and not was_closed
 
 

@@ -83,6 +83,13 @@ def feature_transport(shape: str, width_m: float, depth_m: float, bottom_width_m
     if not lo <= aspect <= hi:
         cautions.append(f"aspect ratio {aspect:.3g} is outside the {lo:g}-{hi:g} range the "
                         "transmission solver is verified for")
+    if bottom_width_m is not None:
+        t_lo, t_hi = transmission.TAPER_RATIO_RANGE
+        ratio = bottom_width_m / width_m
+        if ratio < t_lo:
+            cautions.append(f"bottom/top width {ratio:.3g} is below the {t_lo:g} the taper model "
+                            f"covers; transport uses a bottom width of {t_lo:g} x the top")
+            bottom_width_m = t_lo * width_m
     w = transmission.transmission_probability(shape, depth_m, width_m, bottom_width_m)
     d_k = float(diffusion.knudsen_diffusivity(w, step.reactant_speed_m_s, depth_m))
     d_m = step.molecular_diffusivity_m2_s
