@@ -208,11 +208,7 @@ def evaluate(recipe: Recipe) -> Evaluation:
             last_regime[fid] = (step.name, fr.regime)
             if geo.grow(step.film_m, step.etch_depth_m):
                 fr.closed = True
-                where = "bottom" if geo.bottom_width_m is not None and \
-                    geo.bottom_width_m <= geo.width_m else "opening"
-                flags.append(raise_flag(
-                    "feature-closes", f"{feat.name}: the {step.film_m * 1e9:.3g} nm film of this "
-                    f"step closes the feature at its {where}", step=step.name, feature=fid))
+                flags.append(_closure_flag(feat, geo, step))
         result = StepResult(index, step.name, step.process, step.duration_s, step.pressure_Pa,
                             step.temperature_K, step.reactant, step.sticking, step.film_m,
                             step.etch_depth_m, species, lam, mu, features, flags,
@@ -278,6 +274,19 @@ def _gas_cautions(recipe: Recipe, gases_used: list[str]) -> list[dict]:
         out.append({"gas": key, "name": gas.name, "hazards": list(gas.hazards),
                     "cautions": cautions, "data_source": gas.source})
     return out
+
+
+def _closure_flag(feat: Feature, geo: _Geometry, step: Step) -> Flag:
+    """A feature that pinches off at its opening traps a void (critical); one whose tapered
+    bottom closes first while the opening stays open fills from the bottom up (info)."""
+    film = f"the {step.film_m * 1e9:.3g} nm film of this step"
+    if geo.width_m > CLOSED_BELOW_M:
+        return raise_flag("feature-closes", f"{feat.name}: {film} closes the tapered feature at "
+                          "its bottom while the opening stays open: it fills from the bottom up, "
+                          "no void from this closure", step=step.name, feature=feat.id,
+                          severity="info")
+    return raise_flag("feature-closes", f"{feat.name}: {film} closes the feature at its "
+                      "opening", step=step.name, feature=feat.id)
 
 
 BOUND_NAMES = ("continuum/slip", "slip/transition", "transition/free-molecular")

@@ -51,7 +51,8 @@ def test_tapered_feature_closes_at_bottom_first():
     text = HEADER + TRENCH.replace('depth = "1 um"', 'depth = "1 um"\nbottom_width = "40 nm"')
     ev = _eval(text + _step("dep", "1 Torr", film="25 nm"))
     flag = next(f for f in ev.flags if f.code == "feature-closes")
-    assert "bottom" in flag.message
+    # a V-shaped trench fills from the bottom up: no void, so information rather than critical
+    assert "bottom" in flag.message and flag.severity == "info"
 
 
 def test_regime_shift_between_steps():
