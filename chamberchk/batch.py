@@ -67,6 +67,10 @@ def process_file(path: Path, formats: tuple[str, ...], fail_on: str, options: di
     try:
         recipe = load_recipe(path)
         evaluation = evaluate(recipe)
+        if options.get("sweep") is not None:
+            from .sweep import run_sweep
+
+            evaluation.sweep = run_sweep(recipe, options["sweep"])
         outputs = {fmt: renderer(fmt)(evaluation, **options) for fmt in formats}
     except InputError as exc:
         return Outcome(path, EXIT_INPUT, [p.format(exc.source) for p in exc.problems], {})

@@ -113,15 +113,28 @@ def cli(ctx: click.Context, debug: bool) -> None:
               "default, so reports are reproducible).")
 @click.option("--paper", type=click.Choice(["a4", "letter"]), default="a4", show_default=True,
               help="Paper size of PDF reports.")
+@click.option("--sweep", default=None, metavar='"STEP:pressure=LOW..HIGH"',
+              help="Also evaluate one step (name or number) over a pressure or temperature "
+                   'range, e.g. "2:pressure=10 mTorr..10 Torr", and chart the key figures.')
+@click.option("--sweep-points", default=25, show_default=True, type=int,
+              help="Number of points of --sweep (log-spaced for pressure).")
 @click.option("--quiet", "-q", is_flag=True, help="No progress or summary lines on stderr.")
-def check(files, formats, out, fail_on, date, paper, quiet):
+def check(files, formats, out, fail_on, date, paper, sweep, sweep_points, quiet):
     """Evaluate recipe FILES and write their reports."""
     from .batch import run_check
 
     paths = expand_inputs(files)
     debug = click.get_current_context().find_root().obj["debug"]
+    spec = None
+    if sweep is not None:
+        from .sweep import parse_spec
+
+        try:
+            spec = parse_spec(sweep, sweep_points)
+        except ValueError as exc:
+            raise UsageProblem(f"--sweep: {exc}")
     code = run_check(paths, _formats(formats), _out_dir(out), fail_on,
-                     {"date": date, "paper": paper}, quiet,
+                     {"date": date, "paper": paper, "sweep": spec}, quiet,
                      progress=Progress(len(paths), quiet), echo=_err, debug=debug)
     sys.exit(code)
 

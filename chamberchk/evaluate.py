@@ -92,6 +92,7 @@ class Evaluation:
     feature_history: list[dict]
     models: list[dict]
     gas_cautions: list[dict]
+    sweep: dict | None = None
 
 
 CLOSED_BELOW_M = 1e-12

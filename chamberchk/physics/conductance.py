@@ -85,9 +85,9 @@ CHOKED_APERTURE_RATIO = math.sqrt(2 * math.pi * 1.4) * (2 / 2.4) ** (2.4 / 0.8)
 #: Knudsen number (on the hydraulic diameter) at which an aperture's conductance is half-way
 #: between its molecular and choked values. Our assumption, not fitted to data.
 APERTURE_TRANSITION_KNUDSEN = 0.1
-#: Molecular share of every element above which a path is labelled "oatley", below which
-#: "reciprocal-sum" (see path_conductance).
-PATH_METHOD_SHARE_BOUNDS = (0.01, 0.99)
+#: Weight of Oatley's correction at every junction above which a path is labelled "oatley",
+#: below which "reciprocal-sum" (see path_conductance).
+PATH_METHOD_WEIGHT_BOUNDS = (0.01, 0.98)
 #: Ducts and annuli whose longest chord exceeds this many narrowest gaps and whose length exceeds
 #: the direct-solve limit are extrapolated outside the tested range (molecular W less certain).
 MOLECULAR_SOLVER_TESTED_CHORD_RATIO = 25.0
@@ -309,20 +309,25 @@ def _direct_limit(walls: _Walls) -> float:
     return min(max(32 * walls.min_gap, 4 * walls.max_chord), 100 * walls.min_gap)
 
 
-@lru_cache(maxsize=256)
-def _channel_transmission(kind: str, dims: tuple, L: float) -> float:
-    walls = _rectangle_walls(*dims) if kind == "duct" else _annulus_walls(*dims)
+def _transmission_of(walls: _Walls, L: float) -> float:
+    """W of a channel: direct solution up to _direct_limit, else the long-channel law
+    ``1/W - 1 = sigma L + c0 + c1 ln L`` with c0, c1 from direct solutions at L_max/2, L_max."""
     L_max = _direct_limit(walls)
     if L <= L_max:
         return _solve(walls, L)
-    # Long channel: 1/W - 1 = sigma L + c0 + c1 ln L; c0, c1 from two direct solutions.
     sigma = _long_slope(walls)
     ends = [1 / _solve(walls, x) - 1 - sigma * x for x in (L_max / 2, L_max)]
     c1 = (ends[1] - ends[0]) / math.log(2.0)
-    w = 1.0 / (1.0 + sigma * L + ends[1] + c1 * math.log(L / L_max))
+    return 1.0 / (1.0 + sigma * L + ends[1] + c1 * math.log(L / L_max))
+
+
+@lru_cache(maxsize=256)
+def _channel_transmission(kind: str, dims: tuple, L: float) -> float:
+    if kind == "annulus":
+        return _transmission_of(_annulus_walls(*dims), L)
     # Side walls only add resistance: a duct passes at most what the slot of its gap passes
-    # (binds for wide ducts not yet in the long-channel regime at L_max).
-    return min(w, slot_transmission(L / min(dims))) if kind == "duct" else w
+    # (binds for wide ducts not yet in the long-channel regime at the direct-solve limit).
+    return min(_transmission_of(_rectangle_walls(*dims), L), slot_transmission(L / min(dims)))
 
 
 def molecular_transmission(element: PathElement) -> float:
@@ -509,12 +514,12 @@ def element_regime_inputs(element: PathElement, mean_free_path_m) -> tuple[float
 
 def _conductance_parts(element, pressure_Pa, temperature_K, molar_mass_kg_mol, viscosity_Pa_s,
                        mean_free_path_m):
-    """(total, molecular share) of one element."""
+    """(conductance, molecular share): the share is Z C_mol / C, and for an aperture the weight
+    1/(1 + b) of its molecular end; both go from 1 (molecular) to 0 (continuum)."""
     c_mol = molecular_conductance(element, temperature_K, molar_mass_kg_mol)
     if element.shape == "aperture":
         b = APERTURE_TRANSITION_KNUDSEN / element_regime_inputs(element, mean_free_path_m)[1]
-        total = c_mol * (1.0 + (CHOKED_APERTURE_RATIO - 1.0) * b / (1.0 + b))
-        return total, c_mol / total
+        return c_mol * (1.0 + (CHOKED_APERTURE_RATIO - 1.0) * b / (1.0 + b)), 1.0 / (1.0 + b)
     z = float(knudsen_factor(element.hydraulic_diameter_m / 2 / mean_free_path_m))
     total = viscous_conductance(element, pressure_Pa, viscosity_Pa_s) + z * c_mol
     return total, z * c_mol / total
@@ -568,9 +573,10 @@ def path_conductance(elements: Sequence[PathElement], pressure_Pa, temperature_K
                      molar_mass_kg_mol, viscosity_Pa_s, mean_free_path_m) -> tuple[float, str]:
     """Conductance of elements in series, chamber first [m3/s], and the method used.
 
-    Model: ``1/C = sum_i 1/C_i - sum_{i>=2} s_i / C_A(max(A_{i-1}, A_i))`` with ``C_i`` from
+    Model: ``1/C = sum_i 1/C_i - sum_{i>=2} s_i^2 / C_A(max(A_{i-1}, A_i))`` with ``C_i`` from
     :func:`element_conductance`, ``C_A(A) = A v/4`` the aperture conductance of an area and
-    ``s_i`` the smaller molecular share (``Z C_mol / C``) of the two elements at the junction.
+    ``s_i`` the smaller molecular share of the two elements at the junction (``Z C_mol / C``;
+    for an aperture the weight of its molecular end).
 
     * Molecular flow (shares -> 1): this is Oatley's rule [Oat1957]
       ``(1-W)/W = sum (1-W_i)/W_i`` for equal areas (the reciprocal sum counts the entrance
@@ -580,8 +586,10 @@ def path_conductance(elements: Sequence[PathElement], pressure_Pa, temperature_K
       ``1/C_A,small - 1/C_A,large`` [DL1962]; an expansion adds nothing (exit beaming neglected).
       This extension is commonly attributed to Haefer (1980); from memory.
     * Viscous flow (shares -> 0): the reciprocal sum ``1/C = sum 1/C_i``.
-    * In between, the entrance correction is weighted by the molecular share, so C is
-      continuous in pressure (our interpolation, not from a publication).
+    * In between, the entrance correction is weighted by the squared share (our interpolation,
+      not from a publication): C is continuous in pressure, and the correction stays below
+      ``s Z W`` of an element's own resistance, so it vanishes in viscous flow (a weight
+      linear in s would leave a pressure-independent fraction ``Z W``).
 
     Parameters
     ----------
@@ -593,8 +601,10 @@ def path_conductance(elements: Sequence[PathElement], pressure_Pa, temperature_K
     Returns
     -------
     (float, str)
-        The conductance [m3/s] and "oatley" (every share >= 0.99, i.e. Oatley's rule within
-        about 1 %), "reciprocal-sum" (every share <= 0.01) or "oatley-blend".
+        The conductance [m3/s] and the method: "oatley" (every junction weight >= 0.98: Oatley's
+        rule to 2 % of its correction; Kn >~ 10), "reciprocal-sum" (every weight <= 0.01;
+        Kn <~ 0.01), "oatley-blend" in between, "single-element" for a one-element path
+        (bounds in ``PATH_METHOD_WEIGHT_BOUNDS``).
 
     Notes
     -----
@@ -611,14 +621,13 @@ def path_conductance(elements: Sequence[PathElement], pressure_Pa, temperature_K
     parts = [_conductance_parts(e, pressure_Pa, temperature_K, molar_mass_kg_mol,
                                 viscosity_Pa_s, mean_free_path_m) for e in elements]
     resistance = sum(1.0 / c for c, _ in parts)
-    for i in range(1, len(elements)):
-        share = min(parts[i - 1][1], parts[i][1])
+    weights = [min(parts[i - 1][1], parts[i][1]) ** 2 for i in range(1, len(elements))]
+    for i, weight in enumerate(weights, start=1):
         big = max(elements[i - 1].area_m2, elements[i].area_m2)
-        resistance -= share / (big * v4)
-    shares = [s for _, s in parts]
-    lo, hi = PATH_METHOD_SHARE_BOUNDS
-    method = "oatley" if min(shares) >= hi else "reciprocal-sum" if max(shares) <= lo \
-        else "oatley-blend"
+        resistance -= weight / (big * v4)
+    lo, hi = PATH_METHOD_WEIGHT_BOUNDS
+    method = ("single-element" if not weights else "oatley" if min(weights) >= hi else
+              "reciprocal-sum" if max(weights) <= lo else "oatley-blend")
     return float(1.0 / resistance), method
 
 

@@ -175,7 +175,7 @@ class Chart:
                        f'y2="{_num(TOP + self.ph + 4)}" stroke="#1d232a"/>')
             out.append(f'<text x="{_num(x)}" y="{_num(TOP + self.ph + 15)}" font-size="9" '
                        f'text-anchor="middle">{escape(text)}</text>')
-        for v, text in self.y.ticks():
+        for v, text in (self.y.ticks() if self.y.label else []):
             y = self.py(v)
             out.append(f'<line x1="{LEFT - 4}" x2="{LEFT}" y1="{_num(y)}" y2="{_num(y)}" '
                        'stroke="#1d232a"/>')
@@ -314,6 +314,79 @@ def fill_vs_duration(doc: dict) -> dict | None:
             "svg": c.svg({float(i): str(i) for i in steps})}
 
 
+def process_window(doc: dict) -> dict | None:
+    """For each step and feature, the pressure ranges of each regime (same gas, temperature and
+    width) and where the step's pressure sits."""
+    rows = [(s, f) for s in doc["steps"] for f in s["features"] if f.get("window_pressures_Pa")]
+    if not rows:
+        return None
+    bounds = [p for _, f in rows for p in f["window_pressures_Pa"]] + \
+        [s["pressure_Pa"] for s, _ in rows]
+    x = log_axis(bounds, "pressure (Pa)", pad=0.5)
+    n = len(rows)
+    c = Chart(x, Axis(0.0, float(n), False, ""), "Process window")
+    names = ("continuum", "slip", "transition", "free-molecular")
+    for i, (s, f) in enumerate(rows):
+        y0, y1 = c.py(n - i - 0.15), c.py(n - i - 0.85)
+        # Kn falls as pressure rises: free-molecular at the low-pressure end
+        edges = [x.lo, *sorted(f["window_pressures_Pa"]), x.hi]
+        for name, lo, hi in zip(reversed(names), edges, edges[1:]):
+            lo, hi = max(lo, x.lo), min(hi, x.hi)
+            if hi <= lo:
+                continue
+            c.parts.append(f'<rect x="{_num(c.px(lo))}" y="{_num(y0)}" '
+                           f'width="{_num(c.px(hi) - c.px(lo))}" height="{_num(y1 - y0)}" '
+                           f'fill="{BANDS[name]}" stroke="#8a96a3" stroke-width="0.6">'
+                           f'<title>{escape(name)}</title></rect>')
+        px = c.px(s["pressure_Pa"])
+        c.parts.append(f'<line x1="{_num(px)}" x2="{_num(px)}" y1="{_num(y0 - 2)}" '
+                       f'y2="{_num(y1 + 2)}" stroke="#111" stroke-width="2.5"/>')
+        c.parts.append(f'<text x="{LEFT + 3}" y="{_num((y0 + y1) / 2 + 3)}" font-size="8">'
+                       f'{escape(str(s["index"]))} {escape(f["name"][:18])}</text>')
+    c.legend = []
+    svg = c.svg()
+    return {"title": "Process window",
+            "caption": "Each row is a step and feature: shaded spans show the pressures at which "
+                       "that feature would be continuum (darkest), slip, transition or "
+                       "free-molecular (white) at the step's gas and temperature; the black bar is "
+                       "the step's pressure. The JSON gives the crossing pressures and the factor "
+                       "to the nearest bound.",
+            "svg": svg}
+
+
+def sweep_charts(doc: dict) -> list[dict]:
+    sweep = doc.get("sweep")
+    if not sweep:
+        return []
+    key = "values_Pa" if sweep["parameter"] == "pressure" else "values_K"
+    xs = sweep[key]
+    label = "pressure (Pa)" if key == "values_Pa" else "temperature (K)"
+    out = []
+    for field, title, ylabel, log in (
+            ("knudsen_number", "Knudsen number", "Knudsen number", True),
+            ("fill_time_99_s", "99 % fill time", "time (s)", True),
+            ("bottom_flux_ratio", "bottom flux", "bottom flux / opening flux", False)):
+        values = [v for f in sweep["features"] for v in f[field] if v is not None]
+        if not values:
+            continue
+        x = log_axis(xs, label, pad=0.0) if key == "values_Pa" else lin_axis(xs, label, False)
+        y = log_axis(values, ylabel) if log else lin_axis(values, ylabel)
+        c = Chart(x, y, title)
+        for k, f in enumerate(sweep["features"]):
+            c.line([(a, b) for a, b in zip(xs, f[field]) if b is not None], k)
+        sx = c.px(sweep["step_value"]) if x.lo <= sweep["step_value"] <= x.hi else None
+        if sx is not None:
+            c.parts.append(f'<line x1="{_num(sx)}" x2="{_num(sx)}" y1="{TOP}" '
+                           f'y2="{_num(TOP + c.ph)}" stroke="#111" stroke-dasharray="4 2"/>')
+        c.legend = [(k, f["name"]) for k, f in enumerate(sweep["features"])]
+        out.append({"title": f"Sweep of step {sweep['step_index']}: {title}",
+                    "caption": f"{title} of each feature in step '{sweep['step']}' as its "
+                               f"{sweep['parameter']} varies; the dashed line marks the "
+                               "recipe's value.",
+                    "svg": c.svg()})
+    return out
+
+
 def charts_for(doc: dict) -> list[dict]:
     """The charts for one evaluation document: a list of {title, caption, svg}."""
     bounds = tuple(doc.get("regime_bounds", (0.01, 0.1, 10.0)))
@@ -325,5 +398,7 @@ def charts_for(doc: dict) -> list[dict]:
         across_steps(doc, "knudsen_number", "Knudsen number across the steps",
                      "Knudsen number", True, "Knudsen number of each feature at each step."),
         fill_vs_duration(doc),
+        process_window(doc),
+        *sweep_charts(doc),
     ]
     return [c for c in charts if c is not None]
