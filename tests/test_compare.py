@@ -1,0 +1,167 @@
+"""Comparison of recipe revisions, process windows and sweeps (issue: change requests)."""
+
+from __future__ import annotations
+
+import json
+import math
+
+import numpy as np
+import pytest
+
+from chamberchk.compare import compare, match_steps
+from chamberchk.evaluate import evaluate
+from chamberchk.recipe import load_bytes
+from chamberchk.sweep import parse_spec, run_sweep
+
+BASE = '''format = 1
+[recipe]
+name = "probe"
+revision = "{rev}"
+[[feature]]
+id = "t"
+name = "trench"
+shape = "trench"
+width = "150 nm"
+depth = "600 nm"
+'''
+
+
+def step(name, pressure="1 Torr", duration="10 s", film="0 nm"):
+    return (f'[[step]]\nname = "{name}"\nduration = "{duration}"\npressure = "{pressure}"\n'
+            f'temperature = "400 degC"\ngases = {{ SiH4 = "50 sccm", N2 = "2 slm" }}\n'
+            f'sticking = 0.01\nfilm = "{film}"\n')
+
+
+def recipe(text, name="r.toml"):
+    r = load_bytes(text.encode(), name)
+    return r, evaluate(r)
+
+
+def run(old_text, new_text):
+    a, ea = recipe(old_text, "old.toml")
+    b, eb = recipe(new_text, "new.toml")
+    return compare(a, ea, b, eb)
+
+
+def test_pressure_change_across_a_bound_is_named():
+    # 1 Torr -> 300 Torr moves a 150 nm trench from free-molecular (Kn ~ 400) into transition
+    c = run(BASE.format(rev="A") + step("dep"), BASE.format(rev="B") + step("dep", "300 Torr"))
+    assert len(c.crossings) == 1
+    x = c.crossings[0]
+    assert (x["step"], x["feature"], x["old_regime"]) == ("dep", "t", "free-molecular")
+    assert x["new_regime"] in ("transition", "slip")
+    assert any(f.code == "regime-crossing" and f.severity == "warning" for f in c.flags)
+    change = c.steps[0].input_changes
+    assert [ch.field for ch in change] == ["pressure_Pa"]
+
+
+def test_duration_only_change_crosses_nothing():
+    c = run(BASE.format(rev="A") + step("dep"), BASE.format(rev="B") + step("dep", duration="20 s"))
+    assert c.crossings == []
+    assert not any(f.code == "regime-crossing" for f in c.flags)
+    assert [ch.field for ch in c.steps[0].input_changes] == ["duration_s"]
+
+
+def test_match_steps_by_name_then_position():
+    # reordered names match by name; a renamed step in the same slot matches by position
+    pairs = match_steps(["a", "b", "c", "d"], ["b", "a", "c2", "d", "e"])
+    how = {(i, j): m for i, j, m in pairs}
+    assert how[(1, 0)] == "name" and how[(0, 1)] == "name" and how[(3, 3)] == "name"
+    assert how[(2, 2)] == "position"
+    assert (None, 4, "added") in pairs
+    pairs = match_steps(["a", "b", "c"], ["a", "c"])
+    assert (1, None, "removed") in pairs
+
+
+def test_renamed_and_added_steps_through_cli(tmp_path, cli):
+    old = tmp_path / "rev-a.toml"
+    new = tmp_path / "rev-b.toml"
+    old.write_text(BASE.format(rev="A") + step("dep one") + step("dep two"), encoding="utf-8")
+    new.write_text(BASE.format(rev="B") + step("dep two") + step("first dep") + step("extra"),
+                   encoding="utf-8")
+    out = tmp_path / "out"
+    r = cli("compare", old, new, "--out", out, "--format", "json,html")
+    assert r.returncode == 0, r.stderr
+    doc = json.loads((out / "rev-a__rev-b.json").read_text())
+    matches = {(s["old_name"], s["new_name"]): s["match"] for s in doc["steps"]}
+    assert matches[("dep two", "dep two")] == "name"
+    assert matches[("dep one", "first dep")] == "position"
+    assert matches[(None, "extra")] == "added"
+    assert "rev-a__rev-b.html" in {p.name for p in out.iterdir()}
+    # --fail-on warning turns a crossing into exit 1
+    new.write_text(BASE.format(rev="B") + step("dep one", "300 Torr") + step("dep two"),
+                   encoding="utf-8")
+    r = cli("compare", old, new, "--out", out, "--fail-on", "warning")
+    assert r.returncode == 1 and "1 regime crossing" in r.stderr
+
+
+def test_window_pressures_closed_form():
+    """Kn p is constant (mean free path inversely proportional to pressure at fixed T and
+    composition): the crossing pressure of a bound Kn_b is p Kn / Kn_b exactly."""
+    wide = BASE.format(rev="A").replace('"150 nm"', '"2 um"')  # slip bound below 10 bar
+    _, ev = recipe(wide + step("dep", "2 Torr"))
+    f = ev.steps[0].features[0]
+    p = ev.steps[0].pressure_Pa
+    for p_b, kn_b in zip(f.window_pressures_Pa, ev.regime_bounds):
+        assert p_b == pytest.approx(p * f.knudsen_number / kn_b, rel=1e-12)
+    # and re-evaluating at a crossing pressure puts Kn on the bound to 1e-9
+    for p_b, kn_b in zip(f.window_pressures_Pa[1:], ev.regime_bounds[1:]):  # below 10 bar
+        torr = p_b / (101325 / 760)
+        _, ev2 = recipe(wide + step("dep", f"{torr!r} Torr"))
+        assert ev2.steps[0].features[0].knudsen_number == pytest.approx(kn_b, rel=1e-9)
+    factors = [max(p / q, q / p) for q in f.window_pressures_Pa]
+    assert f.nearest_bound_factor == pytest.approx(min(factors), rel=1e-12)
+
+
+def test_sweep_is_monotonic_where_physics_says():
+    r, _ = recipe(BASE.format(rev="A") + step("dep"))
+    sw = run_sweep(r, parse_spec("dep:pressure=10 mTorr..700 Torr", 15))
+    f = sw["features"][0]
+    kn, fill, flux = (np.array(f[k], dtype=float) for k in ("knudsen_number", "fill_time_99_s",
+                                                              "bottom_flux_ratio"))
+    # Kn = lambda/w with lambda ~ 1/p: strictly decreasing with pressure
+    assert np.all(np.diff(kn) < 0)
+    # Bosanquet: 1/D = 1/D_K + 1/D_m with D_m ~ 1/p and D_K independent of p, so D and the fill
+    # time's inverse fall monotonically as pressure rises
+    assert np.all(np.diff(fill) > 0)
+    # reaction-diffusion: a smaller D at the same wall loss gives less at the bottom; in the
+    # free-molecular range the ballistic value is pressure-independent (non-increasing overall)
+    assert np.all(np.diff(flux) <= 1e-12)
+    assert sw["values_Pa"][0] == pytest.approx(10e-3 * 101325 / 760, rel=1e-9)
+
+
+def test_temperature_sweep_and_bad_specs():
+    r, _ = recipe(BASE.format(rev="A") + step("dep"))
+    sw = run_sweep(r, parse_spec("1:temperature=100 degC..600 degC", 6))
+    kn = sw["features"][0]["knudsen_number"]
+    # at fixed pressure lambda grows with T (n falls as 1/T, the viscosity rises): Kn rises
+    assert all(b > a for a, b in zip(kn, kn[1:]))
+    for bad in ("dep:pressure=1 Torr", "dep:speed=1..2", "dep:pressure=5 Torr..1 Torr",
+                "dep:pressure=1 m..2 m"):
+        with pytest.raises(ValueError):
+            parse_spec(bad, 10)
+
+
+def test_sweep_through_cli_writes_charts(tmp_path, cli):
+    path = tmp_path / "s.toml"
+    path.write_text(BASE.format(rev="A") + step("dep"), encoding="utf-8")
+    r = cli("check", path, "--sweep", "dep:pressure=0.1 Torr..100 Torr", "--sweep-points", "5",
+            "--out", tmp_path / "o")
+    assert r.returncode == 0, r.stderr
+    doc = json.loads((tmp_path / "o" / "s.json").read_text())
+    assert len(doc["sweep"]["values_Pa"]) == 5
+    html = (tmp_path / "o" / "s.html").read_text()
+    assert "Sweep of step 1: Knudsen number" in html
+    r = cli("check", path, "--sweep", "nope:pressure=0.1 Torr..1 Torr", "--out", tmp_path / "o")
+    assert r.returncode == 2 and "no step named or numbered 'nope'" in r.stderr
+
+
+def test_feature_history_names_largest_change():
+    _, ev = recipe(BASE.format(rev="A") + step("a", film="20 nm") + step("b", film="20 nm")
+                   + step("c", "200 Torr"))
+    hist = ev.feature_history[0]
+    assert [row["step"] for row in hist["rows"]] == ["a", "b", "c"]
+    assert hist["rows"][2]["width_m"] == pytest.approx(70e-9, rel=1e-9)
+    assert hist["largest_change"]["regime"] == ["c"]
+    assert hist["largest_change"]["aspect_ratio"]["step"] == "c"
+    assert math.isclose(hist["largest_change"]["aspect_ratio"]["factor"], 110 / 70, rel_tol=1e-9)
