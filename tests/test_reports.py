@@ -25,7 +25,7 @@ import pytest
 
 pypdf = pytest.importorskip("pypdf")
 
-from conftest import RECIPES, run_cli  # noqa: E402
+from conftest import run_cli  # noqa: E402
 
 # -----------------------------------------------------------------------------------------------
 # recipes
