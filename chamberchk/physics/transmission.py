@@ -108,7 +108,7 @@ _TUBE = _Kernel1D(
     q0=_ring_g,
     q1=lambda y: y * _ring_g(y) - _ring_h(y),
     direct=lambda L: 2.0 / (2.0 + L * L + L * math.sqrt(L * L + 4.0)),
-    walls=1, h_first=0.2, ratio=1.1, h_cap=lambda L: math.inf)
+    walls=1, h_first=0.2, ratio=1.05, h_cap=lambda L: 4.0)
 
 _SLOT = _Kernel1D(
     p0=lambda u: 0.5 * u / np.sqrt(1.0 + u * u),
@@ -117,7 +117,7 @@ _SLOT = _Kernel1D(
     q0=lambda y: 0.5 * (1.0 - 1.0 / (y + np.sqrt(1.0 + y * y))),
     q1=lambda y: 0.25 * (np.arcsinh(y) - y / (y + np.sqrt(1.0 + y * y))),
     direct=lambda L: 1.0 / (math.sqrt(1.0 + L * L) + L),
-    walls=2, h_first=0.2, ratio=1.1, h_cap=lambda L: 1.0 + L / 300.0)
+    walls=2, h_first=0.2, ratio=1.05, h_cap=lambda L: 1.0 + L / 300.0)
 
 
 def _graded_nodes(length, h_first, ratio, h_max):
