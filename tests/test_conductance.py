@@ -67,7 +67,8 @@ def mc_duct(w, h, L, n, seed):
         zn = z + t * dz
         passed += int((zn >= L).sum())
         k = (zn > 0) & (zn < L)
-        x, y, z, hitx = np.clip(x + t * dx, 0, w)[k], np.clip(y + t * dy, 0, h)[k], zn[k], (tx <= ty)[k]
+        hitx = (tx <= ty)[k]
+        x, y, z = np.clip(x + t * dx, 0, w)[k], np.clip(y + t * dy, 0, h)[k], zn[k]
         a, b, c = _cosine(x.size, rng)
         sx, sy = np.where(x > w / 2, -1.0, 1.0), np.where(y > h / 2, -1.0, 1.0)
         dx, dy, dz = np.where(hitx, sx * c, a), np.where(hitx, a, sy * c), b
@@ -107,13 +108,15 @@ def mc_annulus(ro, ri, L, n, seed):
 def test_element_geometry_by_hand():
     """Areas, perimeters, hydraulic diameters from the textbook definitions D_h = 4A/P."""
     t = tube(0.1, 1.0)
-    assert t.area_m2 == pytest.approx(math.pi * 0.0025) and t.hydraulic_diameter_m == pytest.approx(0.1)
+    assert t.area_m2 == pytest.approx(math.pi * 0.0025)
+    assert t.hydraulic_diameter_m == pytest.approx(0.1)
     d = PathElement("duct", width_m=0.3, height_m=0.03, length_m=0.1)
-    assert d.area_m2 == pytest.approx(0.009) and d.hydraulic_diameter_m == pytest.approx(2 * 0.009 / 0.33)
+    assert d.area_m2 == pytest.approx(0.009)
+    assert d.hydraulic_diameter_m == pytest.approx(2 * 0.009 / 0.33)
     a = PathElement("annulus", outer_diameter_m=0.4, inner_diameter_m=0.35, length_m=0.1)
     assert a.hydraulic_diameter_m == pytest.approx(0.05)
     ap = PathElement("aperture", width_m=0.02, height_m=0.01)
-    assert ap.length == 0.0 and ap.characteristic_length_m == pytest.approx(4 * 2e-4 / 0.06)
+    assert ap.axial_length_m == 0.0 and ap.characteristic_length_m == pytest.approx(4 * 2e-4 / 0.06)
     assert element_regime_inputs(t, 0.01) == pytest.approx((0.1, 0.1))
 
 
@@ -245,6 +248,20 @@ def test_long_channel_extension_on_the_tube(l_over_r, w_ref):
     walls = cond._circle_walls(2.0)                     # radius 1
     assert l_over_r > cond._direct_limit(walls)
     assert cond._transmission_of(walls, float(l_over_r)) == pytest.approx(w_ref, rel=5e-3)
+
+
+def test_tested_range_and_slot_cap():
+    """Tested-range flag (data for cautions) by hand; and a wide, long duct (outside the tested
+    range) never passes more than the slot of its gap (side walls only add resistance)."""
+    assert cond.molecular_transmission_tested(tube(0.01, 5.0))             # L/R = 1000
+    assert not cond.molecular_transmission_tested(tube(0.01, 6.0))
+    assert cond.molecular_transmission_tested(PathElement("duct", width_m=1.0, height_m=1.0,
+                                                          length_m=1000.0))
+    wide = PathElement("duct", width_m=100.0, height_m=1.0, length_m=200.0)
+    assert not cond.molecular_transmission_tested(wide)
+    assert cond.molecular_transmission_tested(PathElement("duct", width_m=100.0, height_m=1.0,
+                                                          length_m=50.0))
+    assert molecular_transmission(wide) <= slot_transmission(200.0)
 
 
 # --------------------------------------------------------------------------------------------
@@ -435,8 +452,9 @@ def test_orifice_in_a_duct_and_equal_apertures():
     expected = 1 / ca0 + 2 * (1 / c_t - 1 / ca0) + (1 / ca - 1 / ca0)
     c, _ = _molecular_path([t, plate, t])
     assert 1 / c == pytest.approx(expected, rel=1e-6)
-    c2, _ = _molecular_path([plate, plate])
-    assert c2 == pytest.approx(ca, rel=1e-6)
+    c2, method = _molecular_path([plate, plate])
+    assert c2 == pytest.approx(ca, rel=1e-6) and method == "oatley"
+    assert _molecular_path([plate])[1] == "single-element"
 
 
 def test_viscous_path_is_the_reciprocal_sum():

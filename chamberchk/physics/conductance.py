@@ -57,7 +57,7 @@ from numpy.polynomial.legendre import leggauss
 from scipy import constants, optimize
 
 from .kinetics import mean_speed
-from .transmission import slot_transmission, tube_transmission
+from .transmission import TUBE_LENGTH_OVER_RADIUS_RANGE, slot_transmission, tube_transmission
 
 R = constants.R
 
@@ -66,7 +66,7 @@ SHAPES = ("tube", "aperture", "duct", "annulus")
 #: Standard conditions that define the sccm: 0 degC and 101.325 kPa (DESIGN.md).
 STANDARD_TEMPERATURE_K = constants.zero_Celsius
 STANDARD_PRESSURE_Pa = constants.atm
-#: One sccm as a molar flow: p0 * 1 cm3 / (R T0) per minute = 7.4362e-7 mol/s.
+#: One sccm as a molar flow: p0 * 1 cm3 / (R T0) per minute = 7.4359e-7 mol/s.
 MOL_S_PER_SCCM = STANDARD_PRESSURE_Pa * 1e-6 / (R * STANDARD_TEMPERATURE_K) / 60.0
 #: One sccm as a pV throughput at 0 degC: 101325 Pa * 1e-6 m3 / 60 s = 1.68875e-3 Pa m3/s.
 PA_M3_S_PER_SCCM_AT_0C = STANDARD_PRESSURE_Pa * 1e-6 / 60.0
@@ -74,13 +74,15 @@ PA_M3_S_PER_SCCM_AT_0C = STANDARD_PRESSURE_Pa * 1e-6 / 60.0
 #: Knudsen's Z = (1 + c1 a/lambda)/(1 + c2 a/lambda), a radius (hydraulic radius here), lambda the
 #: viscosity-based mean free path (mu/p) sqrt(pi k T / 2m) [DL1962]; c1 = 2 sqrt(pi/2).
 KNUDSEN_Z_COEFFICIENTS = (2.507, 3.095)
-#: Knudsen fitted long capillaries; below this L/D_h the formula is used outside its basis.
+#: Knudsen fitted long capillaries; below this L/D_h the formula is used outside its basis
+#: (our threshold for "long"; common practice, not from a publication).
 KNUDSEN_FORMULA_MIN_LENGTH_OVER_DIAMETER = 10.0
 #: Laminar (Poiseuille-type) formulas: Reynolds number on the hydraulic diameter, common practice.
 LAMINAR_REYNOLDS_MAX = 2000.0
 #: Ratio of an aperture's choked-flow conductance to its molecular one, isentropic nozzle with
-#: discharge coefficient 1 and heat-capacity ratio 1.4 [Sha1953]: sqrt(2 pi g) (2/(g+1))^((g+1)/(2(g-1))).
-#: It is 1.57 for g = 1.1 and 1.82 for g = 5/3; sharp-edged plates pass less (upper bound).
+#: discharge coefficient 1 and heat-capacity ratio g = 1.4 [Sha1953]:
+#: sqrt(2 pi g) (2/(g+1))^((g+1)/(2(g-1))) = 1.716. It is 1.57 for g = 1.1 and 1.82 for g = 5/3;
+#: sharp-edged plates pass less (an upper bound).
 CHOKED_APERTURE_RATIO = math.sqrt(2 * math.pi * 1.4) * (2 / 2.4) ** (2.4 / 0.8)
 #: Knudsen number (on the hydraulic diameter) at which an aperture's conductance is half-way
 #: between its molecular and choked values. Our assumption, not fitted to data.
@@ -137,7 +139,7 @@ class PathElement:
             raise ValueError("annulus: inner_diameter_m must be less than outer_diameter_m")
 
     @property
-    def length(self) -> float:
+    def axial_length_m(self) -> float:
         """Length along the flow [m] (0 for an aperture)."""
         return self.length_m or 0.0
 
@@ -291,8 +293,9 @@ def _solve(walls: _Walls, L: float) -> float:
             block[np.diag_indices(n)] += Kq.sum(1) - hit
             M[i * n:(i + 1) * n, j * n:(j + 1) * n] += block
     nu = np.linalg.solve(M, rhs)
-    direct = 1 - sum(P * (wt * L * np.arctan2(rho, L)).sum()
-                     for P, (rho, wt, _) in zip(walls.perimeters, walls.chords)) / (np.pi * walls.area)
+    wall_hits = sum(P * (wt * L * np.arctan2(rho, L)).sum()         # entrance -> walls
+                    for P, (rho, wt, _) in zip(walls.perimeters, walls.chords))
+    direct = 1 - wall_hits / (np.pi * walls.area)
     return float(direct + sum(q @ (nu[j * n:(j + 1) * n] * _escape(rho, wt, L - z))
                               for j, (rho, wt, _) in enumerate(walls.chords)))
 
@@ -365,17 +368,38 @@ def molecular_transmission(element: PathElement) -> float:
     >>> round(molecular_transmission(PathElement("aperture", diameter_m=0.05)), 3)
     1.0
     """
-    if element.shape == "aperture" or element.length == 0.0:
+    if element.shape == "aperture" or element.axial_length_m == 0.0:
         return 1.0
     if element.shape == "tube":
-        return float(tube_transmission(2 * element.length / element.diameter_m))
+        return float(tube_transmission(2 * element.axial_length_m / element.diameter_m))
+    dims, gap = _channel_dims(element)
+    return float(_channel_transmission(element.shape, tuple(x / gap for x in dims),
+                                       element.axial_length_m / gap))
+
+
+def _channel_dims(element):
+    """(cross-section dimensions, narrowest gap) of a duct or annulus [m]."""
     if element.shape == "duct":
-        dims = (element.width_m, element.height_m)
+        return (element.width_m, element.height_m), min(element.width_m, element.height_m)
+    return ((element.outer_diameter_m, element.inner_diameter_m),
+            (element.outer_diameter_m - element.inner_diameter_m) / 2)
+
+
+def molecular_transmission_tested(element: PathElement) -> bool:
+    """Whether :func:`molecular_transmission` is inside its tested range: tubes up to
+    ``TUBE_LENGTH_OVER_RADIUS_RANGE`` of the transmission module; ducts and annuli whose longest
+    chord is at most ``MOLECULAR_SOLVER_TESTED_CHORD_RATIO`` narrowest gaps, or which are short
+    enough to be solved directly (100 gaps). Apertures always."""
+    if element.shape == "aperture":
+        return True
+    if element.shape == "tube":
+        return 2 * element.axial_length_m / element.diameter_m <= TUBE_LENGTH_OVER_RADIUS_RANGE[1]
+    dims, gap = _channel_dims(element)
+    if element.shape == "duct":
+        chord = math.hypot(*dims)
     else:
-        dims = (element.outer_diameter_m, element.inner_diameter_m)
-    scale = min(dims) if element.shape == "duct" else dims[0] - dims[1]
-    w = _channel_transmission(element.shape, tuple(x / scale for x in dims), element.length / scale)
-    return float(w)
+        chord = 2 * math.sqrt((dims[0] / 2) ** 2 - (dims[1] / 2) ** 2)
+    return chord <= MOLECULAR_SOLVER_TESTED_CHORD_RATIO * gap or element.axial_length_m <= 100 * gap
 
 
 def molecular_conductance(element: PathElement, temperature_K, molar_mass_kg_mol) -> float:
@@ -460,20 +484,31 @@ def viscous_conductance(element: PathElement, mean_pressure_Pa, viscosity_Pa_s,
     >>> round(viscous_conductance(t, 100.0, 1.8206e-5) * 1e3, 3)   # L/s; 1.348 d^4 p/L, cm and Pa
     1.348
     """
-    p_over_mu = mean_pressure_Pa / viscosity_Pa_s
-    e = element
-    if e.shape == "aperture":
+    if element.shape == "aperture":
         if temperature_K is None or molar_mass_kg_mol is None:
             raise ValueError("an aperture's viscous (choked) conductance needs T and M")
-        return CHOKED_APERTURE_RATIO * molecular_conductance(e, temperature_K, molar_mass_kg_mol)
-    if e.shape == "tube":
-        return float(math.pi * e.diameter_m ** 4 * p_over_mu / (128.0 * e.length))
-    if e.shape == "duct":
-        h, w = sorted((e.width_m, e.height_m))
-        return float(w * h ** 3 * p_over_mu / (12.0 * e.length) * _rect_series(h / w))
+        return CHOKED_APERTURE_RATIO * molecular_conductance(element, temperature_K,
+                                                             molar_mass_kg_mol)
+    return float(_VISCOUS[element.shape](element) * mean_pressure_Pa / viscosity_Pa_s)
+
+
+def _viscous_tube(e):
+    return math.pi * e.diameter_m ** 4 / (128.0 * e.axial_length_m)
+
+
+def _viscous_duct(e):
+    h, w = sorted((e.width_m, e.height_m))
+    return w * h ** 3 / (12.0 * e.axial_length_m) * _rect_series(h / w)
+
+
+def _viscous_annulus(e):
     b, a = e.outer_diameter_m / 2, e.inner_diameter_m / 2
     bracket = b ** 4 - a ** 4 - (b * b - a * a) ** 2 / math.log(b / a)
-    return float(math.pi * p_over_mu * bracket / (8.0 * e.length))
+    return math.pi * bracket / (8.0 * e.axial_length_m)
+
+
+#: Laminar conductance per (p / mu) of each shape [m4... = m3/s per (Pa / Pa s)].
+_VISCOUS = {"tube": _viscous_tube, "duct": _viscous_duct, "annulus": _viscous_annulus}
 
 
 # ---------------------------------------------------------------------------------------------
@@ -497,7 +532,7 @@ def knudsen_factor(radius_over_mean_free_path):
 
     Examples
     --------
-    >>> round(knudsen_factor(1.0), 4)
+    >>> round(float(knudsen_factor(1.0)), 4)
     0.8564
     """
     c1, c2 = KNUDSEN_Z_COEFFICIENTS
