@@ -18,7 +18,6 @@ import os
 
 os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
 
-import math  # noqa: E402
 import time  # noqa: E402
 
 from chamberchk.physics import transmission as tr  # noqa: E402

@@ -161,8 +161,7 @@ def simulate(shape: str, depth_m: float, top_width_m: float,
     geo = _GEOMETRIES[shape](depth_m / (0.5 * top_width_m), bottom / top_width_m)
     L, rng = geo.L, np.random.default_rng(seed)
     hits = np.zeros(n_particles)                # bottom arrivals per molecule
-    P = D = ids = np.empty((3, 0))
-    ids = np.empty(0, dtype=np.int64)
+    P, D, ids = np.empty((3, 0)), np.empty((3, 0)), np.empty(0, dtype=np.int64)
     injected = wall = 0
     while injected < n_particles or ids.size:
         if ids.size < batch_size // 2 and injected < n_particles:
