@@ -39,7 +39,7 @@ class SheathResult:
     ion_mass_kg: float
     debye_length_m: float
     bohm_speed_m_s: float
-    ion_flux_m2_s: float
+    ion_flux_per_m2_per_s: float
     sheath_thickness_m: float
     ion_cross_section_m2: float
     cross_section_source: str
@@ -105,7 +105,7 @@ def evaluate_sheath(plasma: Plasma, ion: str, ion_molar_mass_kg_mol: float,
         ion=ion, ion_mass_kg=mass,
         debye_length_m=float(sheath.debye_length(n_s, te)),
         bohm_speed_m_s=float(sheath.bohm_speed(te, mass)),
-        ion_flux_m2_s=float(sheath.ion_flux(plasma.electron_density_m3, te, mass,
+        ion_flux_per_m2_per_s=float(sheath.ion_flux(plasma.electron_density_m3, te, mass,
                                             sheath.PRESHEATH_DENSITY_RATIO)),
         sheath_thickness_m=s, ion_cross_section_m2=sigma, cross_section_source=source,
         ion_mean_free_path_m=lam_i, collisionality=ratio,

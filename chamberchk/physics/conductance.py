@@ -22,8 +22,9 @@ follow from the cross-section's chord lengths (the projected flights between wal
 exact for the tube, the slot and the annulus (by symmetry) and for any cross-section when the
 channel is long (the emission rate is then linear along the axis [Smo1910]); for rectangles of
 finite length it neglects the variation of the emission rate across a wall. Checks (tests): the
-tube table of Clausing/Berman to 1e-5, the slot table, and Monte Carlo for ducts and annuli to
-0.2 %. Tubes use :func:`chamberchk.physics.transmission.tube_transmission`.
+tube table of Clausing/Berman (1e-5 measured), the slot table, Monte Carlo for ducts and annuli
+(0.2 %), Smoluchowski's long-duct factors (0.8 %). Tubes themselves use
+:func:`chamberchk.physics.transmission.tube_transmission`.
 
 References
 ----------
@@ -507,7 +508,7 @@ def _viscous_annulus(e):
     return math.pi * bracket / (8.0 * e.axial_length_m)
 
 
-#: Laminar conductance per (p / mu) of each shape [m4... = m3/s per (Pa / Pa s)].
+#: Laminar conductance divided by p/mu for each shape [m3].
 _VISCOUS = {"tube": _viscous_tube, "duct": _viscous_duct, "annulus": _viscous_annulus}
 
 

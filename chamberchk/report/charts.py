@@ -115,7 +115,7 @@ class Chart:
                               f' y2="{_num(self.py(y))}" stroke="#777" stroke-dasharray="{dash}"/>')
 
     def line(self, points: list[tuple[float, float]], k: int) -> None:
-        pts = [(x, y) for x, y in points if self._inside(x, y)]
+        pts = self._clip(points)
         if len(pts) < 2:
             return
         path = " ".join(f"{_num(self.px(x))},{_num(self.py(y))}" for x, y in pts)
@@ -154,6 +154,46 @@ class Chart:
             cx, cy = self.px(x), self.py(y)
             self.parts.append(f'<line x1="{_num(cx - half_width)}" x2="{_num(cx + half_width)}" '
                               f'y1="{_num(cy)}" y2="{_num(cy)}" stroke="#111" stroke-width="2.5"/>')
+
+    def _clip(self, points: list[tuple[float, float]]) -> list[tuple[float, float]]:
+        """Points of a polyline clipped to the plot area (in axis fractions), so a line whose
+        ends stick out is cut at the frame instead of dropped."""
+        def frac(p):
+            x, y = p
+            ok = (x is not None and y is not None and math.isfinite(x) and math.isfinite(y)
+                  and not (self.x.log and x <= 0) and not (self.y.log and y <= 0))
+            return (self.x.frac(x), self.y.frac(y)) if ok else None
+
+        def back(u, v):
+            x = (10 ** (math.log10(self.x.lo) + u * (math.log10(self.x.hi)
+                                                       - math.log10(self.x.lo)))
+                 if self.x.log else self.x.lo + u * (self.x.hi - self.x.lo))
+            y = (10 ** (math.log10(self.y.lo) + v * (math.log10(self.y.hi)
+                                                       - math.log10(self.y.lo)))
+                 if self.y.log else self.y.lo + v * (self.y.hi - self.y.lo))
+            return x, y
+
+        out: list[tuple[float, float]] = []
+        fr = [frac(p) for p in points]
+        for a, b in zip(fr, fr[1:]):
+            if a is None or b is None:
+                continue
+            t0, t1 = 0.0, 1.0
+            dx, dy = b[0] - a[0], b[1] - a[1]
+            for p, q in ((-dx, a[0]), (dx, 1 - a[0]), (-dy, a[1]), (dy, 1 - a[1])):
+                if p == 0:
+                    if q < 0:
+                        t0, t1 = 1.0, 0.0
+                elif p < 0:
+                    t0 = max(t0, q / p)
+                else:
+                    t1 = min(t1, q / p)
+            if t0 <= t1:
+                start = back(a[0] + t0 * dx, a[1] + t0 * dy)
+                if not out or out[-1] != start:
+                    out.append(start)
+                out.append(back(a[0] + t1 * dx, a[1] + t1 * dy))
+        return out
 
     def _inside(self, x: float, y: float) -> bool:
         ok = x is not None and y is not None and math.isfinite(x) and math.isfinite(y)
