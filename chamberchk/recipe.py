@@ -27,20 +27,29 @@ MAX_FILE_BYTES = 2_000_000
 PROCESSES = ("deposition", "etch", "ald-pulse", "purge", "soak", "other")
 FEATURE_SHAPES = ("trench", "via")
 
-#: Plausibility limits (inclusive upper bound, SI) that catch unit slips such as "2 m" for "2 um".
-#: They are deliberately wide: a value beyond them is not a process any chamber runs.
-LIMITS = {
-    "pressure": 1.0e6,            # 10 bar
-    "temperature": 2500.0,        # K
-    "duration": 1.0e6,            # s, about 11.6 days
-    "feature_length": 1.0e-2,     # 10 mm: wider or deeper is not a wafer feature
-    "film": 1.0e-5,               # 10 um per step
-    "etch_depth": 1.0e-3,         # 1 mm per step
-    "flow": 1.0,                  # mol/s, about 1,300 slm
-    "volume": 100.0,              # m3
-    "chamber_length": 10.0,       # m
-    "pump_speed": 1.0e3,          # m3/s
+#: Plausibility limits (SI, inclusive) that catch unit slips such as "2 m" for "2 um" and values no
+#: chamber runs: name -> (lowest, highest, the range in words). Deliberately wide.
+LIMITS: dict[str, tuple[float, float, str]] = {
+    "pressure": (1e-7, 1.0e6, "1e-7 Pa to 10 bar"),
+    "temperature": (10.0, 2500.0, "10 K to 2500 K"),
+    "duration": (1e-9, 1.0e6, "1 ns to 1e6 s (11.6 days)"),
+    "feature_length": (1e-10, 1.0e-2, "1 angstrom to 10 mm"),
+    "film": (0.0, 1.0e-5, "0 to 10 um per step"),
+    "etch_depth": (0.0, 1.0e-3, "0 to 1 mm per step"),
+    "flow": (0.0, 1.0, "0 to 1 mol/s (about 1300 slm)"),
+    "volume": (1e-6, 100.0, "1 mL to 100 m^3"),
+    "chamber_length": (1e-5, 10.0, "10 um to 10 m"),
+    "pump_speed": (1e-6, 1.0e3, "1 mL/s to 1000 m^3/s"),
+    "electron_density": (1e6, 1e22, "1e6 to 1e22 m^-3 (1 to 1e16 cm^-3)"),
+    "electron_temperature": (0.05, 100.0, "0.05 eV to 100 eV"),
+    "sheath_voltage": (1.0, 1e5, "1 V to 100 kV"),
+    "cross_section": (1e-22, 1e-16, "1e-22 to 1e-16 m^2"),
+    "site_density": (1e15, 1e21, "1e15 to 1e21 m^-2"),
 }
+
+#: Plausible ranges of the numbers of a [gases.NAME] row: field -> (lowest, highest).
+GAS_ROW_LIMITS = {"molar_mass_g_mol": (1.0, 2000.0), "lj_sigma_A": (1.0, 20.0),
+                  "lj_epsilon_K": (1.0, 5000.0)}
 
 
 @dataclass(frozen=True)
@@ -198,10 +207,11 @@ class _Walker:
             what = "absolute zero or below" if kind == "temperature" else "not allowed"
             self.errors.add(where, f"expected {bound}, got {raw!r} ({what})")
             return None
-        hi = LIMITS.get(limit or kind)
-        if hi is not None and si > hi:
-            self.errors.add(where, f"{raw!r} is beyond the plausible range for this field "
-                                   f"(at most {hi:g} in SI units); check the unit")
+        lo, hi, words = LIMITS.get(limit or kind, (0.0, math.inf, ""))
+        if si > hi or 0 < si < lo:
+            side = "beyond" if si > hi else "below"
+            self.errors.add(where, f"{raw!r} is {side} the plausible range for this field "
+                                   f"({words}); check the unit")
             return None
         return si
 
@@ -243,7 +253,8 @@ PATH_SHAPES: dict[str, tuple[tuple[str, ...], tuple[str, ...]]] = {
 }
 
 
-def _load_gases(w: _Walker, doc: dict) -> dict[str, Gas]:
+def _load_gases(w: _Walker, doc: dict, rejected: set[str]) -> dict[str, Gas]:
+    """The recipe's own [gases.NAME] rows; names of rows with errors go into ``rejected``."""
     table = w.table(doc, "gases", "")
     if not table:
         return {}
@@ -262,19 +273,27 @@ def _load_gases(w: _Walker, doc: dict) -> dict[str, Gas]:
                     ok = False
                 continue
             value = row[name]
+            lo, hi = GAS_ROW_LIMITS.get(name, (0.0, math.inf))
             good = (isinstance(value, (int, float)) and not isinstance(value, bool)
-                    and math.isfinite(value) and value > 0) if typ is float else isinstance(value, typ)
+                    and math.isfinite(value) and lo < value <= hi) if typ is float \
+                else isinstance(value, typ)
+            if typ is list and good:
+                good = all(isinstance(v, str) for v in value)
             if not good:
-                want = "a positive number" if typ is float else typ.__name__
+                want = {float: f"a number from {lo:g} to {hi:g}", list: "an array of text",
+                        bool: "true or false", str: "text"}[typ]
                 w.errors.add(_join(path, name), f"expected {want}, got {_kind(value)}")
                 ok = False
-        bad = [h for h in row.get("hazards", []) if h not in HAZARD_CLASSES]
+        hazards = row.get("hazards", [])
+        bad = [h for h in hazards if h not in HAZARD_CLASSES] if isinstance(hazards, list) else []
         if bad:
             w.errors.add(_join(path, "hazards"),
                          f"unknown hazard class {bad[0]!r}; use {', '.join(HAZARD_CLASSES)}")
             ok = False
         if ok:
             out[key] = gas_from_row(key, row)
+        else:
+            rejected.add(key)
     return out
 
 
@@ -297,7 +316,7 @@ def _load_settings(w: _Walker, doc: dict) -> Settings:
         w.errors.add("settings.coverage_critical", "must not exceed coverage_warning")
     rt = w.number(s, "residence_times", "settings", d.residence_times, 0.0, 100.0)
     ns = w.number(s, "neutral_starved_ratio", "settings", d.neutral_starved_ratio, 1.0, 1e3)
-    sd = w.quantity(s, "site_density", "settings", "areal_density")
+    sd = w.quantity(s, "site_density", "settings", "areal_density", limit="site_density")
     if None in (c, sl, t, cw, cc, rt, ns):
         return d
     return Settings(RegimeBounds(c, sl, t), sd, cw, cc, rt, ns)
@@ -341,7 +360,8 @@ def _default_reactant(flows: dict[str, float], table: GasTable) -> str:
     return max(flows, key=lambda g: (flows[g], g))
 
 
-def _load_flows(w: _Walker, s: dict, path: str, table: GasTable) -> dict[str, float] | None:
+def _load_flows(w: _Walker, s: dict, path: str, table: GasTable,
+                rejected: set[str]) -> dict[str, float] | None:
     gases = s.get("gases")
     where = _join(path, "gases")
     if gases is None:
@@ -354,6 +374,9 @@ def _load_flows(w: _Walker, s: dict, path: str, table: GasTable) -> dict[str, fl
     flows, ok = {}, True
     for gas, raw in gases.items():
         gpath = _join(where, gas)
+        if gas in rejected:      # its [gases] row already has an error message
+            ok = False
+            continue
         if gas not in table:
             hint = table.suggest(gas)
             more = f"; did you mean {' or '.join(hint)}?" if hint else (
@@ -373,7 +396,8 @@ def _load_flows(w: _Walker, s: dict, path: str, table: GasTable) -> dict[str, fl
     return flows if ok else None
 
 
-def _load_steps(w: _Walker, doc: dict, table: GasTable, feature_ids: list[str]) -> list[Step]:
+def _load_steps(w: _Walker, doc: dict, table: GasTable, feature_ids: list[str],
+                rejected: set[str]) -> list[Step]:
     raw = doc.get("step")
     if raw is None:
         w.errors.add("step", "missing: a recipe needs at least one [[step]]")
@@ -390,13 +414,15 @@ def _load_steps(w: _Walker, doc: dict, table: GasTable, feature_ids: list[str]) 
         w.keys(s, path, STEP_KEYS)
         name = w.text(s, "name", path, required=True)
         process = w.text(s, "process", path, default="other", choices=PROCESSES)
-        duration = w.quantity(s, "duration", path, "time", required=True)
+        duration = w.quantity(s, "duration", path, "time", required=True, limit="duration")
         pressure = w.quantity(s, "pressure", path, "pressure", required=True)
         temperature = w.quantity(s, "temperature", path, "temperature", required=True)
         sticking = w.number(s, "sticking", path, 0.0, 0.0, 1.0)
-        film = w.quantity(s, "film", path, "length", default=0.0, allow_zero=True)
-        etch = w.quantity(s, "etch_depth", path, "length", default=0.0, allow_zero=True)
-        flows = _load_flows(w, s, path, table)
+        film = w.quantity(s, "film", path, "length", default=0.0, allow_zero=True,
+                          limit="film")
+        etch = w.quantity(s, "etch_depth", path, "length", default=0.0, allow_zero=True,
+                          limit="etch_depth")
+        flows = _load_flows(w, s, path, table, rejected)
         reactant = w.text(s, "reactant", path)
         if reactant is not None and flows is not None:
             key = table.get(reactant).key if reactant in table else None
@@ -426,10 +452,13 @@ def _load_plasma(w: _Walker, s: dict, path: str, table: GasTable,
         return False if "plasma" in s else None
     where = _join(path, "plasma")
     w.keys(p, where, PLASMA_KEYS)
-    n = w.quantity(p, "electron_density", where, "density", required=True)
-    te = w.quantity(p, "electron_temperature", where, "energy_eV", required=True)
-    v0 = w.quantity(p, "sheath_voltage", where, "voltage", required=True)
-    sigma = w.quantity(p, "ion_cross_section", where, "area")
+    n = w.quantity(p, "electron_density", where, "density", required=True,
+                   limit="electron_density")
+    te = w.quantity(p, "electron_temperature", where, "energy_eV", required=True,
+                    limit="electron_temperature")
+    v0 = w.quantity(p, "sheath_voltage", where, "voltage", required=True,
+                    limit="sheath_voltage")
+    sigma = w.quantity(p, "ion_cross_section", where, "area", limit="cross_section")
     ion = w.text(p, "ion", where)
     ok = None not in (n, te, v0) and ("ion_cross_section" not in p or sigma is not None)
     if ion is not None:
@@ -468,7 +497,7 @@ def _load_chamber(w: _Walker, doc: dict) -> Chamber | None:
     w.keys(c, "chamber", CHAMBER_KEYS)
     volume = w.quantity(c, "volume", "chamber", "volume", required=True)
     gap = w.quantity(c, "gap", "chamber", "length", limit="chamber_length")
-    speed = w.quantity(c, "pump_speed", "chamber", "speed")
+    speed = w.quantity(c, "pump_speed", "chamber", "speed", limit="pump_speed")
     raw_path = c.get("path", [])
     if not isinstance(raw_path, list):
         w.errors.add("chamber.path", "expected [[chamber.path]] entries (an array of tables)")
@@ -527,8 +556,11 @@ def parse_document(data: bytes, source: str) -> dict:
     if not data.strip():
         errors.add("", "file is empty; expected a TOML recipe (format = 1)")
         errors.raise_if_any()
+    if data[:2] in (b"\xff\xfe", b"\xfe\xff"):
+        errors.add("", "the file is UTF-16 text; save it as UTF-8 (TOML files are UTF-8)")
+        errors.raise_if_any()
     try:
-        text = data.decode("utf-8")
+        text = data.decode("utf-8-sig")   # a UTF-8 byte-order mark (some editors write one) is fine
         if "\x00" in text:
             raise UnicodeDecodeError("utf-8", data, 0, 1, "NUL byte")
     except UnicodeDecodeError:
@@ -564,12 +596,13 @@ def load_bytes(data: bytes, source: str, base_table: GasTable | None = None) -> 
     name = w.text(header, "name", "recipe", default=Path(source).stem)
     revision = w.text(header, "revision", "recipe", default="")
     description = w.text(header, "description", "recipe", default="")
-    table = (base_table or shipped_table()).with_overrides(_load_gases(w, doc))
+    rejected: set[str] = set()
+    table = (base_table or shipped_table()).with_overrides(_load_gases(w, doc, rejected))
     settings = _load_settings(w, doc)
     features = _load_features(w, doc)
     declared = [f.get("id") for f in doc.get("feature", []) if isinstance(f, dict)] \
         if isinstance(doc.get("feature", []), list) else []
-    steps = _load_steps(w, doc, table, [d for d in declared if isinstance(d, str)])
+    steps = _load_steps(w, doc, table, [d for d in declared if isinstance(d, str)], rejected)
     chamber = _load_chamber(w, doc)
     errors.raise_if_any()
     return Recipe(

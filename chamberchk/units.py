@@ -88,6 +88,9 @@ def parse_quantity(value: object, kind: str) -> float:
     if not unit_text:
         raise UnitProblem(f"expected {label} with its unit such as {example}, got {value!r} "
                           "(no unit)")
+    if kind == "temperature" and unit_text in ("C", "F"):
+        raise UnitProblem(f"{value!r}: here {unit_text} would be the coulomb or farad; write "
+                          f"deg{unit_text} (e.g. \"350 deg{unit_text}\") or K")
     try:
         unit = ureg.Unit(unit_text)
     except Exception:  # pint raises several unrelated exception types on malformed units

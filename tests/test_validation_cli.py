@@ -112,7 +112,7 @@ def test_all_errors_of_a_file_reported_in_one_run(tmp_path, cli):
 @pytest.mark.parametrize("content, expected", [
     (b"", "file is empty"),
     (b"\x00\x01\x02binary", "not a text file"),
-    (b"\xff\xfe\xfa", "not a text file"),
+    (b"\xff\xfe\xfa", "the file is UTF-16 text"),
 ])
 def test_empty_and_binary_files(tmp_path, cli, content, expected):
     bad = tmp_path / "bad.toml"
@@ -147,3 +147,14 @@ def test_usage_errors_exit_2(tmp_path, cli):
     r = cli("check", "x.toml", "--format", "docx")
     assert r.returncode == 2 and "--format" in r.stderr
     assert cli("frobnicate").returncode == 2
+
+
+def test_utf8_byte_order_mark_is_accepted(tmp_path, cli):
+    """Some editors save UTF-8 with a byte-order mark; the file is valid UTF-8 TOML otherwise."""
+    from pathlib import Path
+
+    src = Path(__file__).with_name("utf8-bom-recipe.toml")
+    assert src.read_bytes().startswith(b"\xef\xbb\xbf")
+    r = cli("check", src, "--out", tmp_path / "o", "--format", "json", "--fail-on", "never")
+    assert r.returncode == 0, r.stderr
+    assert (tmp_path / "o" / "utf8-bom-recipe.json").exists()
