@@ -18,6 +18,7 @@ from .flags import Flag, raise_flag
 from .physics import collision, kinetics
 from .physics.regimes import crossing_pressures, knudsen_number, regime
 from .recipe import Feature, Recipe, Step
+from .chamber import ChamberResult, evaluate_chamber, mixture_molar_mass
 from .plasma import SheathResult, evaluate_sheath, ion_bottom_fraction
 from .transport import StepGas, feature_transport, molecular_diffusivity
 
@@ -78,6 +79,7 @@ class StepResult:
     features: list[FeatureResult]
     flags: list[Flag] = field(default_factory=list)
     plasma: SheathResult | None = None
+    chamber: ChamberResult | None = None
 
 
 @dataclass
@@ -187,6 +189,7 @@ def evaluate(recipe: Recipe) -> Evaluation:
             gases_used.setdefault(g, None)
         gas = _step_gas(step, recipe, species)
         sheath = _sheath(step, recipe, species, rec, flags) if step.plasma else None
+        chamber = _chamber(step, recipe, lam, mu, gas, rec, flags) if recipe.chamber else None
         features = []
         for fid in step.feature_ids:
             feat, geo = recipe.feature(fid), geometry[fid]
@@ -213,7 +216,7 @@ def evaluate(recipe: Recipe) -> Evaluation:
         result = StepResult(index, step.name, step.process, step.duration_s, step.pressure_Pa,
                             step.temperature_K, step.reactant, step.sticking, step.film_m,
                             step.etch_depth_m, species, lam, mu, features, flags,
-                            plasma=sheath)
+                            plasma=sheath, chamber=chamber)
         steps.append(result)
         all_flags.extend(flags)
     all_flags = _gas_flags(recipe, list(gases_used), rec) + all_flags
@@ -345,6 +348,41 @@ def _transport(fr: FeatureResult, feat: Feature, step: Step, gas: StepGas, recip
         flags.append(raise_flag(
             "dose-short", f"{feat.name}: {step.reactant} exposure is {t.dose_margin:.3g} times "
             f"the {t.required_exposure_Pa_s:.3g} Pa s needed to saturate it", **where))
+
+
+def _chamber(step: Step, recipe: Recipe, lam: float, mu: float, gas: StepGas, rec: _Recorder,
+             flags: list[Flag]) -> ChamberResult:
+    settings = recipe.settings
+    c = evaluate_chamber(recipe.chamber, step.pressure_Pa, step.temperature_K,
+                         step.total_flow_mol_s, mixture_molar_mass(step.mole_fractions,
+                                                                   recipe.gases),
+                         mu, lam, gas.molecular_diffusivity_m2_s, settings.bounds)
+    rec.use("throughput")
+    if c.path_conductance_m3_s is not None:
+        rec.use("conductance-molecular", "conductance-viscous", "conductance-transition",
+                "conductance-series")
+    if c.effective_pump_speed_m3_s is not None:
+        rec.use("pump-speed")
+    where = dict(step=step.name)
+    for caution in c.cautions:
+        flags.append(raise_flag("model-range", f"chamber: {caution}", **where))
+    if c.lowest_pressure_Pa is not None and step.pressure_Pa < c.lowest_pressure_Pa:
+        flags.append(raise_flag(
+            "pressure-unreachable", f"the step asks for {step.pressure_Pa:.3g} Pa but at "
+            f"{c.total_flow_Pa_m3_s:.3g} Pa m3/s the pumping path cannot go below "
+            f"{c.lowest_pressure_Pa:.3g} Pa", **where))
+    n = settings.residence_times
+    if c.residence_time_s is not None and step.duration_s < n * c.residence_time_s:
+        flags.append(raise_flag(
+            "short-residence", f"the step lasts {step.duration_s:.3g} s, less than {n:g} "
+            f"residence times ({n:g} x {c.residence_time_s:.3g} s): after n residence times "
+            f"a well-mixed chamber has exchanged all but exp(-n) of its gas (exp(-{n:g}) = "
+            f"{100 * np.exp(-n):.2g} %)", **where))
+    if c.peclet_number is not None and c.peclet_number > 1.0:
+        flags.append(raise_flag(
+            "gap-mixing", f"diffusion across the {recipe.chamber.gap_m * 1e3:.3g} mm gap takes "
+            f"{c.gap_diffusion_time_s:.3g} s, {c.peclet_number:.3g} residence times", **where))
+    return c
 
 
 def _sheath(step: Step, recipe: Recipe, species: list[SpeciesResult], rec: _Recorder,
