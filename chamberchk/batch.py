@@ -82,9 +82,25 @@ def process_file(path: Path, formats: tuple[str, ...], fail_on: str, options: di
     return Outcome(path, code, [], outputs, worst)
 
 
+def _outcomes(paths, formats, fail_on, options, debug, jobs):
+    """Outcomes in input order; with ``jobs > 1`` files are evaluated in a process pool (same
+    results, since each file is evaluated independently and written by this process)."""
+    if jobs <= 1 or len(paths) < 2:
+        for path in paths:
+            yield process_file(path, formats, fail_on, options, debug)
+        return
+    from concurrent.futures import ProcessPoolExecutor
+    from functools import partial
+
+    work = partial(process_file, formats=formats, fail_on=fail_on, options=options, debug=debug)
+    with ProcessPoolExecutor(max_workers=jobs) as pool:
+        # map keeps the input order; a small chunk keeps memory flat on big batches
+        yield from pool.map(work, paths, chunksize=4)
+
+
 def run_check(paths: list[Path], formats: tuple[str, ...], out_dir: Path, fail_on: str,
               options: dict, quiet: bool, progress, echo: Callable[[str], None],
-              debug: bool = False) -> int:
+              debug: bool = False, jobs: int = 1) -> int:
     """Process every file, write reports, and return the batch's exit code."""
     from .report import write_atomic
 
@@ -92,8 +108,8 @@ def run_check(paths: list[Path], formats: tuple[str, ...], out_dir: Path, fail_o
     inputs = {p.resolve() for p in paths}
     codes = []
     with progress:
-        for path in paths:
-            outcome = process_file(path, formats, fail_on, options, debug)
+        for outcome in _outcomes(paths, formats, fail_on, options, debug, jobs):
+            path = outcome.path
             for line in outcome.messages:
                 echo(line)
             if outcome.outputs:

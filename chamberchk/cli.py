@@ -118,8 +118,10 @@ def cli(ctx: click.Context, debug: bool) -> None:
                    'range, e.g. "2:pressure=10 mTorr..10 Torr", and chart the key figures.')
 @click.option("--sweep-points", default=25, show_default=True, type=int,
               help="Number of points of --sweep (log-spaced for pressure).")
+@click.option("--jobs", "-j", default=1, show_default=True, type=click.IntRange(1, 64),
+              help="Evaluate files in this many processes (output is identical to one).")
 @click.option("--quiet", "-q", is_flag=True, help="No progress or summary lines on stderr.")
-def check(files, formats, out, fail_on, date, paper, sweep, sweep_points, quiet):
+def check(files, formats, out, fail_on, date, paper, sweep, sweep_points, jobs, quiet):
     """Evaluate recipe FILES and write their reports."""
     from .batch import run_check
 
@@ -135,7 +137,7 @@ def check(files, formats, out, fail_on, date, paper, sweep, sweep_points, quiet)
             raise UsageProblem(f"--sweep: {exc}")
     code = run_check(paths, _formats(formats), _out_dir(out), fail_on,
                      {"date": date, "paper": paper, "sweep": spec}, quiet,
-                     progress=Progress(len(paths), quiet), echo=_err, debug=debug)
+                     progress=Progress(len(paths), quiet), echo=_err, debug=debug, jobs=jobs)
     sys.exit(code)
 
 

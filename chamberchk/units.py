@@ -5,7 +5,7 @@ boundary; everything downstream works on SI floats.
 
 Gas flows: ``sccm`` is a molar flow, the amount of gas that occupies one cubic centimetre per minute
 at the standard conditions 0 degC (273.15 K) and 101.325 kPa. ``slm`` is 1000 sccm (standard litre
-per minute, same conditions). 1 sccm = 7.4367e-7 mol/s, i.e. a throughput of 1.6888e-3 Pa m3/s at
+per minute, same conditions). 1 sccm = 7.4358e-7 mol/s, i.e. a throughput of 1.6888e-3 Pa m3/s at
 273.15 K.
 """
 

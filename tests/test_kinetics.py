@@ -161,3 +161,13 @@ def test_wilke_mixture_viscosity_against_cantera():
     # Cantera's mixture-averaged viscosity is Wilke's formula; 0.5 % covers its slightly different
     # phi expression for unequal masses
     assert ours == pytest.approx(gas.viscosity, rel=5e-3)
+
+
+def test_sccm_definition():
+    """1 sccm: 1 cm3/min of ideal gas at 0 degC and 101.325 kPa, n = pV/(RT) per 60 s
+    (definition; CODATA R from scipy)."""
+    from chamberchk.units import SCCM_MOL_S, parse_quantity
+
+    assert SCCM_MOL_S == pytest.approx(101325 * 1e-6 / (constants.R * 273.15) / 60, rel=1e-12)
+    assert parse_quantity("1 sccm", "flow") == pytest.approx(7.4358e-7, rel=1e-4)
+    assert parse_quantity("2 slm", "flow") == pytest.approx(2000 * SCCM_MOL_S, rel=1e-12)
