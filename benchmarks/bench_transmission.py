@@ -29,7 +29,7 @@ TUBE_TABLE = {0.5: 0.80127, 1: 0.67198, 2: 0.51423, 5: 0.31053, 10: 0.19094, 20:
 
 
 def _clear():
-    for f in (tr._tube_cached, tr._slot_cached, tr._profile_cached):
+    for f in (tr._clausing, tr._profile_cached):
         f.cache_clear()
 
 

@@ -230,10 +230,24 @@ def test_feature_widths_are_scale_free():
     lambda: tr.transmission_probability("trench", 1.0, 1.0, -0.5),
     lambda: tr.bottom_flux_ratio("via", 1.0, 1.0, None, 1.5),
     lambda: tr.bottom_flux_ratio("via", 1.0, 1.0, None, -0.1),
+    lambda: tr.bottom_flux_ratio("via", 3.2e-6, 1e-30, None, 0.01),   # beyond the solver
+    lambda: tr.transmission_probability("trench", 2e4, 1.0, 0.5),
 ])
 def test_out_of_domain_raises(call):
     with pytest.raises(ValueError):
         call()
+
+
+def test_very_long_straight_channels_follow_the_long_limits():
+    """Beyond L/R = 1000 the tube is extrapolated with 1/W = 3L/8R + C, which must tend to
+    the Knudsen limit 8R/3L (G4-02; tolerance 1e-6: C/(3L/8) at L/R = 1e8 is 1e-8) and keep
+    W decreasing across the switch."""
+    assert tr.tube_transmission(1e8) * 3e8 / 8 == pytest.approx(1.0, abs=1e-6)
+    values = [tr.tube_transmission(x) for x in (999.0, 1000.0, 1001.0, 2000.0)]
+    assert values == sorted(values, reverse=True)
+    # slot: the extrapolation keeps W (L/h) - ln(L/h) in the band G4-05 gives for
+    # 10 <= L/h <= 200 (a sanity check of the extrapolated form, not a published value)
+    assert 0.08 <= tr.slot_transmission(1e6) * 1e6 - math.log(1e6) <= 0.12
 
 
 def test_validity_ranges_are_data():
@@ -242,3 +256,4 @@ def test_validity_ranges_are_data():
         lo, hi = rng
         assert 0.0 <= lo < hi
     assert tr.ASPECT_RATIO_RANGE[1] >= 200.0
+    assert tr.SOLVER_ASPECT_RATIO_LIMIT > tr.ASPECT_RATIO_RANGE[1]

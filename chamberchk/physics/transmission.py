@@ -50,7 +50,7 @@ ASPECT_RATIO_RANGE = (0.0, 200.0)
 TAPER_RATIO_RANGE = (0.25, 1.5)
 #: Largest depth/top width the radiosity solver (tapered features, bottom flux ratio) accepts;
 #: beyond it a ValueError is raised (straight open features have no such limit).
-SOLVER_ASPECT_RATIO_LIMIT = 5000.0
+SOLVER_ASPECT_RATIO_LIMIT = 1000.0
 #: Sticking (reaction) probability per wall or bottom collision.
 STICKING_RANGE = (0.0, 1.0)
 
