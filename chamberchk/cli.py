@@ -8,6 +8,7 @@ progress goes to stderr; stdout stays clean for piping.
 from __future__ import annotations
 
 import glob
+import os
 import sys
 import traceback
 from pathlib import Path
@@ -15,6 +16,11 @@ from pathlib import Path
 import click
 
 from . import __version__
+
+# The kernels solve many small linear systems; multi-threaded BLAS only adds overhead there (and
+# with --jobs it oversubscribes the cores). Set before numpy is first imported.
+for _var in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS"):
+    os.environ.setdefault(_var, "1")
 
 EXIT_OK, EXIT_FLAGGED, EXIT_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
 SEVERITY_CHOICES = ("info", "warning", "critical", "never")
