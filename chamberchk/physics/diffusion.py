@@ -35,6 +35,8 @@ References
 
 from __future__ import annotations
 
+from functools import lru_cache
+
 import numpy as np
 from scipy import constants
 from scipy.optimize import brentq
@@ -317,6 +319,7 @@ def closed_end_concentration_ratio(depth_m, diffusivity_m2_s, time_s):
     return np.vectorize(_closed_end_fraction, otypes=[float])(u)[()]
 
 
+@lru_cache(maxsize=64)
 def _dimensionless_time_to_fraction(fraction):
     """u = D t / L^2 at which the closed end reaches ``fraction`` of the mouth value."""
     if not 0.0 < fraction < 1.0:
