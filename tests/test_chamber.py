@@ -113,3 +113,13 @@ def test_gap_knudsen_number():
     step = ev.steps[0]
     assert step.chamber.gap_knudsen_number == pytest.approx(step.mean_free_path_m / 0.01,
                                                             rel=1e-12)
+
+
+def test_short_tube_in_transition_flow_gets_a_model_range_caution():
+    """Knudsen's formula was fitted to long tubes; a short one in transition flow is cautioned."""
+    short = '[[chamber.path]]\nshape = "tube"\ndiameter = "100 mm"\nlength = "120 mm"\n'
+    ev = run(pressure="20 mTorr", path=short)
+    assert any(f.code == "model-range" and "Knudsen's formula" in f.message for f in ev.flags)
+    long_ = '[[chamber.path]]\nshape = "tube"\ndiameter = "100 mm"\nlength = "2 m"\n'
+    ev = run(pressure="20 mTorr", path=long_)
+    assert not any("Knudsen's formula" in f.message for f in ev.flags)

@@ -147,3 +147,14 @@ gases = { Ar = "75 sccm", He = "25 sccm" }
     # T^(~1.7)/p (common practice): hundreds of um at 0.5 Torr and 200 degC
     assert 50e-6 < lam_mix < 500e-6
     assert feat.regime == "free-molecular"
+
+
+def test_collision_integral_range_caution():
+    """Neufeld et al. (1972) fitted 0.3 <= T* <= 100; He (epsilon/k = 10.22 K) at 1500 K has
+    T* ~ 147, so the evaluator must say the viscosity is an extrapolation."""
+    ev = _eval(HEADER + TRENCH + _step("hot", "1 Torr", gases='{ He = "100 sccm" }').replace(
+        '"25 degC"', '"1227 degC"'))
+    assert any(f.code == "model-range" and "He" in f.message and "T*" in f.message
+               for f in ev.flags)
+    ev = _eval(HEADER + TRENCH + _step("room", "1 Torr", gases='{ He = "100 sccm" }'))
+    assert not any(f.code == "model-range" and "T*" in f.message for f in ev.flags)
