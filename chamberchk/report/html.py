@@ -31,7 +31,10 @@ def context(evaluation, date: str | None = None) -> dict:
     names = {f["id"]: f["name"] for s in doc["steps"] for f in s["features"]}
     grid = [{"step": s["name"], "cells": {f["id"]: f for f in s["features"]}}
             for s in doc["steps"]]
-    return {"doc": doc, "counts": counts, "feature_ids": feature_ids, "feature_names": names,
+    rank = {"critical": 0, "warning": 1, "info": 2}
+    attention = sorted((f for f in doc["flags"] if f["severity"] != "info"),
+                       key=lambda f: rank[f["severity"]])   # stable: recipe order within
+    return {"doc": doc, "counts": counts, "attention": attention, "feature_ids": feature_ids, "feature_names": names,
             "grid": grid, "notice": NOTICE, "date": date, "charts": charts_for(doc)}
 
 
