@@ -23,8 +23,9 @@ CHAMBER_INPUTS = (("volume_m3", "volume"), ("gap_m", "length"), ("pump_speed_m3_
                   ("path", "text"))
 #: per-feature results compared
 FEATURE_RESULTS = ("knudsen_number", "regime", "fill_time_99_s", "bottom_flux_ratio",
-                   "dose_margin", "ion_to_neutral_bottom_over_top")
-STEP_RESULTS = ("mean_free_path_m", "lowest_pressure_Pa", "residence_time_s")
+                   "dose_margin", "ion_to_neutral_bottom_over_top", "window_pressures_Pa",
+                   "nearest_bound_factor", "nearest_bound")
+STEP_RESULTS = ("pressure_Pa", "mean_free_path_m", "lowest_pressure_Pa", "residence_time_s")
 
 
 @dataclass

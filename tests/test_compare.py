@@ -165,3 +165,29 @@ def test_feature_history_names_largest_change():
     assert hist["largest_change"]["regime"] == ["c"]
     assert hist["largest_change"]["aspect_ratio"]["step"] == "c"
     assert math.isclose(hist["largest_change"]["aspect_ratio"]["factor"], 110 / 70, rel_tol=1e-9)
+
+
+def test_jobs_give_identical_output(tmp_path, demo_recipes):
+    """--jobs 2 evaluates in a process pool; every report must be byte-identical to a serial run."""
+    from conftest import run_cli
+
+    a, b = tmp_path / "serial", tmp_path / "pool"
+    files = [str(p) for p in demo_recipes]
+    r1 = run_cli("check", *files, "--out", a, "--format", "json,toml,html", "-q",
+                 "--fail-on", "never")
+    r2 = run_cli("check", *files, "--out", b, "--format", "json,toml,html", "-q",
+                 "--fail-on", "never", "--jobs", "2")
+    assert r1.returncode == r2.returncode == 0, r1.stderr + r2.stderr
+    names = sorted(p.name for p in a.iterdir())
+    assert names == sorted(p.name for p in b.iterdir()) and len(names) == 3 * len(files)
+    for name in names:
+        assert (a / name).read_bytes() == (b / name).read_bytes(), name
+
+
+def test_compare_report_has_window_chart(tmp_path, cli):
+    old, new = tmp_path / "a.toml", tmp_path / "b.toml"
+    old.write_text(BASE.format(rev="A") + step("dep"), encoding="utf-8")
+    new.write_text(BASE.format(rev="B") + step("dep", "300 Torr"), encoding="utf-8")
+    r = cli("compare", old, new, "--out", tmp_path / "o", "--format", "html")
+    assert r.returncode == 0
+    assert "Process window, old and new" in (tmp_path / "o" / "a__b.html").read_text()

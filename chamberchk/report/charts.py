@@ -394,6 +394,25 @@ def process_window(doc: dict) -> dict | None:
             "svg": svg}
 
 
+def window_comparison(doc: dict) -> dict | None:
+    """The process window of each matched step and feature, old revision above new."""
+    steps, features = [], []
+    for pair in doc["steps"]:
+        for f in pair["features"]:
+            for side in ("old", "new"):
+                fig = f.get(side)
+                p = pair["results"]["pressure_Pa"][side]
+                if fig and p and fig.get("window_pressures_Pa"):
+                    label = f"{side} {pair[side + '_index']}"
+                    steps.append({"index": label, "pressure_Pa": p})
+                    features.append({"name": f["name"], **fig})
+    if not steps:
+        return None
+    chart = process_window({"steps": [{**s, "features": [f]} for s, f in zip(steps, features)]})
+    chart["title"] = "Process window, old and new"
+    return chart
+
+
 def sweep_charts(doc: dict) -> list[dict]:
     sweep = doc.get("sweep")
     if not sweep:

@@ -28,9 +28,12 @@ def to_toml(comparison, **_options) -> bytes:
 def to_html(comparison, date: str | None = None, **_options) -> bytes:
     from .html import environment
 
+    from .charts import window_comparison
+
     doc = comparison_document(comparison)
     template = environment().get_template("compare.html.j2")
-    return template.render(doc=doc, notice=NOTICE, date=date).encode("utf-8")
+    charts = [c for c in (window_comparison(doc),) if c is not None]
+    return template.render(doc=doc, notice=NOTICE, date=date, charts=charts).encode("utf-8")
 
 
 def to_pdf(comparison, date: str | None = None, paper: str = "a4", **_options) -> bytes:
