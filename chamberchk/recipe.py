@@ -24,6 +24,7 @@ from .units import UnitProblem, parse_quantity
 
 FORMAT_VERSION = 1
 MAX_FILE_BYTES = 2_000_000
+MAX_ASPECT_RATIO = 1000.0   # depth over width as drawn; deeper is not a wafer feature
 PROCESSES = ("deposition", "etch", "ald-pulse", "purge", "soak", "other")
 FEATURE_SHAPES = ("trench", "via")
 
@@ -344,6 +345,11 @@ def _load_features(w: _Walker, doc: dict) -> list[Feature]:
         width = w.quantity(f, "width", path, "length", required=True, limit="feature_length")
         depth = w.quantity(f, "depth", path, "length", required=True, limit="feature_length")
         bottom = w.quantity(f, "bottom_width", path, "length", limit="feature_length")
+        if width is not None and depth is not None and depth / width > MAX_ASPECT_RATIO:
+            w.errors.add(_join(path, "depth"), f"aspect ratio {depth / width:.3g} (depth over "
+                         f"width) is beyond {MAX_ASPECT_RATIO:g}; check the units of width and "
+                         "depth")
+            depth = None
         if bottom is not None and width is not None and bottom > width:
             w.errors.add(_join(path, "bottom_width"), "expected at most the top width "
                          "(re-entrant profiles are not modelled)")

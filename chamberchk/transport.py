@@ -83,6 +83,15 @@ def feature_transport(shape: str, width_m: float, depth_m: float, bottom_width_m
     if not lo <= aspect <= hi:
         cautions.append(f"aspect ratio {aspect:.3g} is outside the {lo:g}-{hi:g} range the "
                         "transmission solver is verified for")
+    too_long = aspect > transmission.SOLVER_ASPECT_RATIO_LIMIT
+    if too_long:
+        cautions.append(f"aspect ratio {aspect:.3g} is beyond the "
+                        f"{transmission.SOLVER_ASPECT_RATIO_LIMIT:g} the integral equations are "
+                        "solved for: transmission from the long-channel limit, bottom coverage "
+                        "from reaction-diffusion" + (", taper ignored (mean width)"
+                                                     if bottom_width_m is not None else ""))
+        if bottom_width_m is not None:
+            width_m, bottom_width_m = 0.5 * (width_m + bottom_width_m), None
     if bottom_width_m is not None:
         t_lo, t_hi = transmission.TAPER_RATIO_RANGE
         ratio = bottom_width_m / width_m
@@ -100,7 +109,7 @@ def feature_transport(shape: str, width_m: float, depth_m: float, bottom_width_m
     t_fill = float(diffusion.fill_time(depth_m, d_eff))
     t_99 = float(diffusion.fill_time_to_fraction(depth_m, d_eff, 0.99))
 
-    if knudsen >= bounds.transition_max:
+    if knudsen >= bounds.transition_max and not too_long:
         ratio = (transmission_table.bottom_flux_ratio(shape, depth_m, width_m, step.sticking)
                  if bottom_width_m is None else
                  transmission.bottom_flux_ratio(shape, depth_m, width_m, bottom_width_m,
