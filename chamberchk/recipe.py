@@ -7,6 +7,7 @@ lists everything wrong with a file. Problems are reported by field path: ``step[
 
 from __future__ import annotations
 
+import datetime
 import difflib
 import hashlib
 import math
@@ -224,6 +225,10 @@ def _join(path: str, key: str) -> str:
 def _kind(value: Any) -> str:
     names = {bool: "true/false", int: "a bare number", float: "a bare number", str: "text",
              list: "an array", dict: "a table"}
+    if isinstance(value, (datetime.date, datetime.time)):
+        return f"a TOML date/time {value.isoformat()}"
+    if isinstance(value, (dict, list)) and not value:
+        return "an empty " + ("table" if isinstance(value, dict) else "array")
     shown = repr(value)
     if len(shown) > 40:
         shown = shown[:37] + "..."
@@ -380,6 +385,10 @@ def _load_flows(w: _Walker, s: dict, path: str, table: GasTable,
     flows, ok = {}, True
     for gas, raw in gases.items():
         gpath = _join(where, gas)
+        if not gas.strip():
+            w.errors.add(where, "a gas with an empty name")
+            ok = False
+            continue
         if gas in rejected:      # its [gases] row already has an error message
             ok = False
             continue
@@ -433,8 +442,11 @@ def _load_steps(w: _Walker, doc: dict, table: GasTable, feature_ids: list[str],
         if reactant is not None and flows is not None:
             key = table.get(reactant).key if reactant in table else None
             if key not in flows:
+                hint = difflib.get_close_matches(reactant, list(flows), n=1)
+                more = f"; did you mean {hint[0]!r}?" if hint else ""
                 w.errors.add(_join(path, "reactant"),
-                             f"{reactant!r} is not among the step's gases ({', '.join(flows)})")
+                             f"{reactant!r} is not among the step's gases ({', '.join(flows)})"
+                             + more)
                 reactant = None
             else:
                 reactant = key
@@ -570,7 +582,11 @@ def parse_document(data: bytes, source: str) -> dict:
         if "\x00" in text:
             raise UnicodeDecodeError("utf-8", data, 0, 1, "NUL byte")
     except UnicodeDecodeError:
-        errors.add("", "not a text file (expected UTF-8 TOML)")
+        if b"\x00" in data:
+            errors.add("", "not a text file (expected UTF-8 TOML)")
+        else:
+            errors.add("", "not UTF-8 text (perhaps Latin-1 or a Windows code page); save the "
+                           "file as UTF-8")
         errors.raise_if_any()
     try:
         return tomllib.loads(text)
@@ -578,7 +594,11 @@ def parse_document(data: bytes, source: str) -> dict:
         message = str(exc)
         pos = _TOML_POS.search(message)
         where = f"line {pos.group(1)}, column {pos.group(2)}" if pos else ""
-        errors.add(where, "TOML syntax error: " + _TOML_POS.sub("", message))
+        hint = ""
+        if "key part" in message or "inline table" in message:
+            hint = (" (inline tables { ... } must stay on one line in TOML 1.0, with no "
+                    "trailing comma)")
+        errors.add(where, "TOML syntax error: " + _TOML_POS.sub("", message) + hint)
         errors.raise_if_any()
     except RecursionError:
         errors.add("", "TOML nesting is too deep")

@@ -97,6 +97,9 @@ def parse_quantity(value: object, kind: str) -> float:
         raise UnitProblem(f"unknown unit {match.group(2)!r} in {value!r} (e.g. {example})") from None
     try:
         quantity = Q_(number, unit)
+        if kind == "energy_eV" and quantity.check("[temperature]"):
+            # an electron temperature given in kelvin: T[eV] = k T / e
+            return float(quantity.to("K").magnitude * constants.k / constants.e)
         if not quantity.check(dim):
             found = _describe_dimension(quantity)
             raise UnitProblem(f"expected {label} such as {example}, got {value!r} ({found})")

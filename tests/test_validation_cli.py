@@ -158,3 +158,19 @@ def test_utf8_byte_order_mark_is_accepted(tmp_path, cli):
     r = cli("check", src, "--out", tmp_path / "o", "--format", "json", "--fail-on", "never")
     assert r.returncode == 0, r.stderr
     assert (tmp_path / "o" / "utf8-bom-recipe.json").exists()
+
+
+def test_friendlier_messages(tmp_path, cli):
+    """Hints for the usual slips: a split inline table, a near-miss reactant, Te in kelvin."""
+    split = GOOD.replace('gases = { SiH4 = "50 sccm", N2 = "500 sccm" }',
+                         'gases = { SiH4 = "50 sccm",\n N2 = "500 sccm" }')
+    bad = tmp_path / "split.toml"
+    bad.write_text(split, encoding="utf-8")
+    r = cli("check", bad, "--out", tmp_path / "o")
+    assert r.returncode == 2 and "must stay on one line" in r.stderr
+    bad.write_text(GOOD + 'reactant = "SiH3"\n', encoding="utf-8")
+    r = cli("check", bad, "--out", tmp_path / "o")
+    assert "did you mean 'SiH4'?" in r.stderr
+    # 11604.5 K is 1 eV (k/e from CODATA): a plasma electron temperature in kelvin is accepted
+    from chamberchk.units import parse_quantity
+    assert parse_quantity("11604.518 K", "energy_eV") == pytest.approx(1.0, rel=1e-6)
