@@ -328,18 +328,25 @@ def _load_settings(w: _Walker, doc: dict) -> Settings:
     return Settings(RegimeBounds(c, sl, t), sd, cw, cc, rt, ns)
 
 
-def _load_features(w: _Walker, doc: dict) -> list[Feature]:
-    raw = doc.get("feature", [])
+def _entries(w: _Walker, raw: Any, name: str, keys: tuple[str, ...] | None = None):
+    """Yield ``(path, table)`` for each entry of an array of tables ``[[name]]``, reporting a
+    non-array and non-table entries (and, with ``keys``, unknown keys) as it goes."""
     if not isinstance(raw, list):
-        w.errors.add("feature", "expected [[feature]] entries (an array of tables)")
-        return []
-    features, seen = [], set()
-    for i, f in enumerate(raw, start=1):
-        path = f"feature[{i}]"
-        if not isinstance(f, dict):
-            w.errors.add(path, f"expected a table, got {_kind(f)}")
+        w.errors.add(name, f"expected [[{name}]] entries (an array of tables)")
+        return
+    for i, entry in enumerate(raw, start=1):
+        path = f"{name}[{i}]"
+        if not isinstance(entry, dict):
+            w.errors.add(path, f"expected a table, got {_kind(entry)}")
             continue
-        w.keys(f, path, FEATURE_KEYS)
+        if keys is not None:
+            w.keys(entry, path, keys)
+        yield path, entry
+
+
+def _load_features(w: _Walker, doc: dict) -> list[Feature]:
+    features, seen = [], set()
+    for path, f in _entries(w, doc.get("feature", []), "feature", FEATURE_KEYS):
         fid = w.text(f, "id", path, required=True)
         if fid is not None:
             if fid in seen:
@@ -417,16 +424,11 @@ def _load_steps(w: _Walker, doc: dict, table: GasTable, feature_ids: list[str],
     if raw is None:
         w.errors.add("step", "missing: a recipe needs at least one [[step]]")
         return []
-    if not isinstance(raw, list) or not raw:
+    if isinstance(raw, list) and not raw:
         w.errors.add("step", "expected [[step]] entries (an array of tables)")
         return []
     steps = []
-    for i, s in enumerate(raw, start=1):
-        path = f"step[{i}]"
-        if not isinstance(s, dict):
-            w.errors.add(path, f"expected a table, got {_kind(s)}")
-            continue
-        w.keys(s, path, STEP_KEYS)
+    for path, s in _entries(w, raw, "step", STEP_KEYS):
         name = w.text(s, "name", path, required=True)
         process = w.text(s, "process", path, default="other", choices=PROCESSES)
         duration = w.quantity(s, "duration", path, "time", required=True, limit="duration")
@@ -517,14 +519,10 @@ def _load_chamber(w: _Walker, doc: dict) -> Chamber | None:
     gap = w.quantity(c, "gap", "chamber", "length", limit="chamber_length")
     speed = w.quantity(c, "pump_speed", "chamber", "speed", limit="pump_speed")
     raw_path = c.get("path", [])
-    if not isinstance(raw_path, list):
-        w.errors.add("chamber.path", "expected [[chamber.path]] entries (an array of tables)")
-        raw_path = []
-    elements, ok = [], True
-    for i, e in enumerate(raw_path, start=1):
-        element = _load_element(w, e, f"chamber.path[{i}]")
-        ok = ok and element is not None
-        elements.append(element)
+    entries = list(_entries(w, raw_path, "chamber.path"))
+    elements = [_load_element(w, e, path) for path, e in entries]
+    ok = None not in elements and len(entries) == len(raw_path) if isinstance(raw_path, list) \
+        else False
     if raw_path and speed is None and "pump_speed" not in c:
         w.errors.add("chamber.pump_speed", "missing: a pumping path needs the pump's speed")
         ok = False
@@ -533,12 +531,9 @@ def _load_chamber(w: _Walker, doc: dict) -> Chamber | None:
     return Chamber(volume, gap, speed, tuple(elements))
 
 
-def _load_element(w: _Walker, e: Any, path: str):
+def _load_element(w: _Walker, e: dict, path: str):
     from .physics.conductance import PathElement
 
-    if not isinstance(e, dict):
-        w.errors.add(path, f"expected a table, got {_kind(e)}")
-        return None
     shape = w.text(e, "shape", path, required=True, choices=tuple(PATH_SHAPES))
     if shape is None:
         return None
