@@ -38,7 +38,7 @@ def _scaled(x: float | None, scales: list[tuple[float, str]]) -> str:
 
 
 def length(x_m):
-    return _scaled(x_m, [(1e-3, "mm"), (1e-6, "µm"), (1e-9, "nm"), (1e-10, "Å"), (1e-12, "pm")])
+    return _scaled(x_m, [(1e-3, "mm"), (1e-6, "µm"), (1e-9, "nm"), (1e-10, "Å")])
 
 
 def pressure(p_pa):
