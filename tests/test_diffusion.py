@@ -154,7 +154,7 @@ def test_binary_diffusivity_arrays_and_symmetry():
 
 
 # Omega(1,1)* of the LJ 12-6 potential = Omega(2,2)* / A*, from the delta* = 0 (Lennard-Jones)
-# columns of the Monchick & Mason (1961, J. Chem. Phys. 35, 1676) tables as transcribed in
+# columns of the Monchick & Mason (1961, J. Chem. Phys. 35, 1676) tables as copied into
 # Cantera's src/transport/MMCollisionInt.cpp (omega22_table, astar_table). These agree with the
 # Hirschfelder, Curtiss & Bird (1954) Table I-M values recalled as 1.439 (T* = 1), 1.075 (2),
 # 0.9490 (3), 0.8422 (5), 0.7424 (10) (from memory) to 0.1 %.
@@ -175,7 +175,7 @@ def test_omega11_vs_tabulated(t_star, om22, a_star):
 
 def test_omega11_check_values_and_chemicals():
     """G3-02 check values (Neufeld coefficients, +-1e-5) and the independent `chemicals`
-    implementation of the same fit (transcription check, 1e-9)."""
+    implementation of the same fit (copying check, 1e-9)."""
     from chemicals.lennard_jones import collision_integral_Neufeld_Janzen_Aziz as njz
     t = [0.3, 1.0, 2.0, 3.0, 5.0, 10.0, 100.0]
     assert_allclose(omega11(np.array(t)), [2.65018, 1.44047, 1.07536, 0.95002, 0.84312, 0.74185,

@@ -207,7 +207,7 @@ def test_cas_numbers_used_here_match_the_formula(key):
 def test_lj_against_poling_table_b1(key):
     """Poling, Prausnitz & O'Connell (2001), App. B, Table B-1, as printed in reference-values
     G2-xx. Tolerance: half a unit in the last printed digit, i.e. the row must equal the
-    printed value; any transcription or re-rounding error fails."""
+    printed value; any copying or re-rounding error fails."""
     ref_id, sigma, epsilon = REF_RPP[key]
     row = GASES[key]
     assert row["lj_estimated"] is False, ref_id
