@@ -10,21 +10,19 @@ from typing import Callable
 FORMATS = ("json", "toml", "html", "pdf")
 
 
+#: format -> (module, function); modules load lazily (WeasyPrint alone costs ~0.5 s to import)
+_RENDERERS = {"json": ("data", "to_json"), "toml": ("data", "to_toml"),
+              "html": ("html", "to_html"), "pdf": ("pdf", "to_pdf")}
+
+
 def renderer(fmt: str) -> Callable[..., bytes]:
     """The function that renders an evaluation (or a list of them) to bytes in ``fmt``."""
-    if fmt == "json":
-        from .data import to_json
-        return to_json
-    if fmt == "toml":
-        from .data import to_toml
-        return to_toml
-    if fmt == "html":
-        from .html import to_html
-        return to_html
-    if fmt == "pdf":
-        from .pdf import to_pdf
-        return to_pdf
-    raise ValueError(f"unknown format {fmt!r}")
+    import importlib
+
+    if fmt not in _RENDERERS:
+        raise ValueError(f"unknown format {fmt!r}")
+    module, name = _RENDERERS[fmt]
+    return getattr(importlib.import_module(f".{module}", __name__), name)
 
 
 def write_atomic(path: Path, data: bytes) -> None:
