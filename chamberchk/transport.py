@@ -14,7 +14,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .gases import Gas
-from .physics import diffusion, exposure, transmission, transmission_table
+from .physics import diffusion, exposure, taper_table, transmission, transmission_table
 from .physics.regimes import RegimeBounds
 
 BALLISTIC = "ballistic"            # integral equations, free-molecular
@@ -102,7 +102,7 @@ def feature_transport(shape: str, width_m: float, depth_m: float, bottom_width_m
     if bottom_width_m is None:   # straight: tables computed with the same solvers (fast path)
         w = transmission_table.transmission_probability(shape, depth_m, width_m)
     else:
-        w = transmission.transmission_probability(shape, depth_m, width_m, bottom_width_m)
+        w = taper_table.transmission_probability(shape, depth_m, width_m, bottom_width_m)
     d_k = float(diffusion.knudsen_diffusivity(w, step.reactant_speed_m_s, depth_m))
     d_m = step.molecular_diffusivity_m2_s
     d_eff = float(diffusion.bosanquet(d_k, d_m))
@@ -112,8 +112,8 @@ def feature_transport(shape: str, width_m: float, depth_m: float, bottom_width_m
     if knudsen >= bounds.transition_max and not too_long:
         ratio = (transmission_table.bottom_flux_ratio(shape, depth_m, width_m, step.sticking)
                  if bottom_width_m is None else
-                 transmission.bottom_flux_ratio(shape, depth_m, width_m, bottom_width_m,
-                                                step.sticking))
+                 taper_table.bottom_flux_ratio(shape, depth_m, width_m, bottom_width_m,
+                                               step.sticking))
         model = BALLISTIC
         models.append("ballistic-coverage")
     else:
