@@ -20,6 +20,7 @@ from importlib import resources
 import numpy as np
 
 from . import transmission
+from .transmission_table import below_tabulated_sticking, rebuild
 
 W_ASPECT = np.geomspace(0.05, 200.0, 61)
 W_TAPER = np.linspace(0.25, 1.0, 16)
@@ -87,17 +88,8 @@ def bottom_flux_ratio(shape: str, depth_m: float, top_width_m: float, bottom_wid
     s_min = float(B_STICKING[0])
     s = max(sticking, s_min)
     value = math.exp(float(f([[math.log(a), r, math.log(s)]])[0]))
-    if sticking < s_min:
-        return 1.0 - (1.0 - value) * sticking / s_min
-    return value
+    return below_tabulated_sticking(value, sticking, s_min)
 
 
-if __name__ == "__main__":  # rebuild the shipped table
-    import time
-    from pathlib import Path
-
-    t0 = time.perf_counter()
-    tables = build()
-    target = Path(__file__).resolve().parents[1] / TABLE_FILE
-    np.savez_compressed(target, **tables)
-    print(f"wrote {target} in {time.perf_counter() - t0:.0f} s")
+if __name__ == "__main__":
+    rebuild(build, TABLE_FILE)

@@ -74,18 +74,28 @@ def bottom_flux_ratio(shape: str, depth_m: float, width_m: float, sticking: floa
     if not lo <= a <= hi or shape not in SHAPES or not 0.0 < sticking <= 1.0:
         return transmission.bottom_flux_ratio(shape, depth_m, width_m, None, sticking)
     spline = f[f"{shape}_b"]
+    value = math.exp(float(spline(math.log(a), math.log(max(sticking, s_min)))[0, 0]))
+    return below_tabulated_sticking(value, sticking, s_min)
+
+
+def below_tabulated_sticking(value_at_s: float, sticking: float, s_min: float) -> float:
+    """Below the smallest tabulated sticking ``s_min`` the deficit 1 - ratio is linear in s
+    (first order in the wall loss); ``value_at_s`` is the table's value at max(s, s_min)."""
     if sticking < s_min:
-        at_min = math.exp(float(spline(math.log(a), math.log(s_min))[0, 0]))
-        return 1.0 - (1.0 - at_min) * sticking / s_min
-    return float(math.exp(float(spline(math.log(a), math.log(sticking))[0, 0])))
+        return 1.0 - (1.0 - value_at_s) * sticking / s_min
+    return value_at_s
 
 
-if __name__ == "__main__":  # rebuild the shipped table
+def rebuild(build_tables, table_file: str) -> None:
+    """Recompute a shipped table with ``build_tables()`` and write it into the package."""
     import time
     from pathlib import Path
 
     t0 = time.perf_counter()
-    tables = build()
-    target = Path(__file__).resolve().parents[1] / TABLE_FILE
-    np.savez_compressed(target, **tables)
+    target = Path(__file__).resolve().parents[1] / table_file
+    np.savez_compressed(target, **build_tables())
     print(f"wrote {target} in {time.perf_counter() - t0:.0f} s")
+
+
+if __name__ == "__main__":
+    rebuild(build, TABLE_FILE)
