@@ -15,6 +15,7 @@ import json
 import logging
 import os
 import re
+import stat
 import threading
 import tomllib
 from contextlib import contextmanager
@@ -26,6 +27,8 @@ import pytest
 pypdf = pytest.importorskip("pypdf")
 
 from conftest import run_cli  # noqa: E402
+
+from chamberchk.report import write_atomic  # noqa: E402
 
 # -----------------------------------------------------------------------------------------------
 # recipes
@@ -596,6 +599,20 @@ def test_no_temporary_files_remain(cli, write_recipe, tmp_path):
                  "--out", out, "-q")
     assert result.returncode == 0, result.stderr
     assert sorted(os.listdir(out)) == ["bw3.html", "bw3.json", "bw3.toml"]
+
+
+@pytest.mark.skipif(not hasattr(os, "fchmod"), reason="POSIX file modes only")
+def test_reports_get_ordinary_file_permissions(tmp_path):
+    """Reports are made to be shared: mode 0666 less the umask, not a temporary file's 0600."""
+    target = tmp_path / "r.json"
+    old = os.umask(0o027)
+    try:
+        write_atomic(target, b"{}")
+    finally:
+        os.umask(old)
+    assert stat.S_IMODE(target.stat().st_mode) == 0o640
+    write_atomic(target, b"{}")          # under the test run's own umask
+    assert stat.S_IMODE(target.stat().st_mode) == 0o666 & ~old
 
 
 def test_out_folder_under_a_file_is_a_usage_error(cli, write_recipe, tmp_path):
