@@ -55,7 +55,8 @@ RULES: dict[str, Rule] = {
     "dose-short": Rule(
         "warning",
         "The pulse's exposure is below what the feature needs to saturate (Gordon et al. 2003); "
-        "the bottom of the feature may not saturate in this pulse."),
+        "the bottom of the feature may not saturate in this pulse. The closed form itself is up "
+        "to 12 % optimistic, so a margin just above 1 is thin too."),
     "pressure-unreachable": Rule(
         "critical",
         "The pumping path cannot hold this pressure at this flow with the pump at full speed; "
