@@ -2,7 +2,8 @@
 
 Glue between a recipe's ``[chamber]`` and :mod:`chamberchk.physics.conductance`. The gas in the
 chamber and the pumping path is taken at the step's temperature and composition (mole-fraction
-mean molar mass, Wilke mixture viscosity, mixture mean free path scaled as 1/p along the path).
+mean molar mass, Wilke mixture viscosity, mixture mean free path scaled as 1/p along the path). The residence time uses the speed a
+throttle valve leaves at the step's pressure, ``Q/p``, at most the full-open effective speed.
 """
 
 from __future__ import annotations
@@ -35,6 +36,7 @@ class ChamberResult:
     path_conductance_m3_s: float | None
     series_method: str | None
     effective_pump_speed_m3_s: float | None
+    throttled_pump_speed_m3_s: float | None
     residence_time_s: float | None
     lowest_pressure_Pa: float | None
     peclet_number: float | None
@@ -60,7 +62,7 @@ def evaluate_chamber(chamber, pressure_Pa: float, temperature_K: float, molar_fl
     """Chamber figures of one step (``chamber`` is a :class:`chamberchk.recipe.Chamber`)."""
     q = float(cond.throughput_from_molar_flow(molar_flow_mol_s, temperature_K))
     out = ChamberResult(molar_flow_mol_s, q, None, None, None, None, None, None, None, None,
-                        None, None)
+                        None, None, None)
     if chamber.gap_m is not None:
         out.gap_knudsen_number = float(knudsen_number(mean_free_path_m, chamber.gap_m))
         out.gap_regime = regime(out.gap_knudsen_number, bounds)
@@ -95,8 +97,10 @@ def evaluate_chamber(chamber, pressure_Pa: float, temperature_K: float, molar_fl
         c_path = out.path_conductance_m3_s
         out.effective_pump_speed_m3_s = s if c_path is None else \
             float(cond.effective_pump_speed(s, c_path))
+        out.throttled_pump_speed_m3_s = float(cond.throttled_pump_speed(
+            q, pressure_Pa, out.effective_pump_speed_m3_s))
         out.residence_time_s = float(cond.residence_time(chamber.volume_m3,
-                                                         out.effective_pump_speed_m3_s))
+                                                         out.throttled_pump_speed_m3_s))
         if chamber.path:
             c_of_p = cond.path_conductance_function(chamber.path, *args, mean_free_path_m,
                                                     pressure_Pa)

@@ -337,7 +337,11 @@ def _transport(fr: FeatureResult, feat: Feature, step: Step, gas: StepGas, recip
             "fill-slower-than-step", f"{feat.name}: {step.reactant} needs "
             f"{t.fill_time_99_s:.3g} s to reach 99 % at the bottom; the step lasts "
             f"{step.duration_s:.3g} s", **where))
-    if step.sticking > 0 and t.bottom_flux_ratio < settings.coverage_warning:
+    # An ALD pulse is self-limiting: the bottom flux ratio describes the bare surface at the
+    # start of the pulse, and the walls saturate and pass the flux on; such a step is judged by
+    # its dose margin (dose-short) instead.
+    if step.process != "ald-pulse" and step.sticking > 0 and \
+            t.bottom_flux_ratio < settings.coverage_warning:
         severity = "critical" if t.bottom_flux_ratio < settings.coverage_critical else "warning"
         flags.append(raise_flag(
             "poor-bottom-coverage", f"{feat.name}: bottom flux {100 * t.bottom_flux_ratio:.3g} % "

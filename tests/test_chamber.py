@@ -101,6 +101,26 @@ def test_high_vacuum_at_process_flow_is_flagged_with_the_lowest_pressure():
     assert p_ch - p_pump == pytest.approx(q / c_mean, rel=1e-6)
 
 
+def test_throttled_residence_time_is_p_v_over_q():
+    """A throttle valve holding a pressure above the lowest holdable one leaves the chamber the
+    speed S = Q/p (Q = p S, definition of pumping speed; O'Hanlon 2003 ch. 3, from memory), so
+    tau = V/S = p V/Q. By hand: 100 sccm of Ar at 20 degC is Q = 0.18133 Pa m3/s; at 1 Torr in
+    10 L, tau = 133.322 x 0.010 / 0.18133 = 7.352 s, independent of the 500 L/s pump. At 1 mTorr
+    the same flow needs more than the pump has (Q/p = 1.36 m3/s), so tau = V/S_eff (test
+    above). Tolerance 1e-9 (closed forms)."""
+    q = 100 * SCCM_MOL_S * constants.R * 293.15
+    for pressure_torr, speed in ((1.0, "500 L/s"), (1.0, "2000 L/s"), (5.0, "500 L/s")):
+        c = run(pressure=f"{pressure_torr} Torr", speed=speed).steps[0].chamber
+        p = pressure_torr * constants.torr
+        assert c.throttled_pump_speed_m3_s == pytest.approx(q / p, rel=1e-9)
+        assert c.residence_time_s == pytest.approx(p * 0.010 / q, rel=1e-9)
+    assert run(pressure="1 Torr").steps[0].chamber.residence_time_s == pytest.approx(7.352,
+                                                                                     rel=1e-3)
+    # unreachable pressure: the chamber is pumped at the full-open speed
+    c = run(pressure="1 mTorr").steps[0].chamber
+    assert c.throttled_pump_speed_m3_s == pytest.approx(c.effective_pump_speed_m3_s, rel=1e-12)
+
+
 def test_short_step_against_residence_time():
     ev = run(duration="10 ms")
     assert any(f.code == "short-residence" for f in ev.flags)

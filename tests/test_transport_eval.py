@@ -65,6 +65,21 @@ def test_new_user_40_to_1_via_ald_pulse_by_hand():
     assert 0.716 < ratio < 0.948
 
 
+def test_ald_pulse_is_judged_by_dose_not_by_bare_surface_coverage():
+    """The same 40:1 via and sticking: as a deposition step the bare-surface bottom flux (about
+    1 %) raises poor-bottom-coverage; as a self-limiting ALD pulse it raises dose-short only
+    while the dose is short, and nothing once the pulse delivers the Gordon exposure."""
+    codes = lambda ev: {f.code for f in ev.flags}  # noqa: E731
+    dep = _eval(ALD.replace('process = "ald-pulse"', 'process = "deposition"'))
+    assert "poor-bottom-coverage" in codes(dep)
+    short = _eval(ALD.replace('duration = "0.5 s"', 'duration = "5 ms"'))
+    assert short.steps[0].features[0].dose_margin < 1
+    assert "dose-short" in codes(short) and "poor-bottom-coverage" not in codes(short)
+    long_ = _eval(ALD)
+    assert long_.steps[0].features[0].dose_margin > 1
+    assert not codes(long_) & {"dose-short", "poor-bottom-coverage"}
+
+
 def test_molecular_diffusivity_in_the_step_by_hand():
     """TMA in N2 by Chapman-Enskog (Poling et al. 2001 eq. 11-3.2) with the table's LJ values;
     Blanc's law with a single partner is the binary value."""

@@ -698,9 +698,30 @@ def effective_pump_speed(pump_speed_m3_s, conductance_m3_s):
     return (s * c / (s + c))[()]
 
 
+def throttled_pump_speed(throughput_Pa_m3_s, pressure_Pa, effective_speed_m3_s):
+    """Pumping speed at the chamber when a throttle valve holds ``pressure_Pa`` [m3/s].
+
+    At steady state the chamber's throughput equals its pressure times the speed it sees,
+    ``Q = p S`` (definition of pumping speed; O'Hanlon, *A User's Guide to Vacuum Technology*,
+    3rd ed. 2003, ch. 3, from memory). A throttle can only lower the full-open effective speed, so
+    ``S = min(Q/p, S_eff)``; when ``Q/p > S_eff`` the pressure cannot be held and the chamber
+    sits higher, pumped at ``S_eff``.
+
+    Examples
+    --------
+    >>> round(float(throttled_pump_speed(0.2, 100.0, 0.5)), 6)   # throttled: Q/p
+    0.002
+    >>> float(throttled_pump_speed(0.2, 0.1, 0.5))               # unreachable: full open
+    0.5
+    """
+    q, p = np.asarray(throughput_Pa_m3_s, dtype=float), np.asarray(pressure_Pa, dtype=float)
+    return np.minimum(q / p, np.asarray(effective_speed_m3_s, dtype=float))[()]
+
+
 def residence_time(volume_m3, effective_speed_m3_s):
-    """Gas residence time ``tau = V / S_eff`` [s] of a well-mixed chamber (the 1/e time of a
-    pressure or composition change at constant throughput)."""
+    """Gas residence time ``tau = V / S`` [s] of a well-mixed chamber (the 1/e time of a
+    pressure or composition change at constant throughput), with ``S`` the speed the chamber
+    actually sees (``throttled_pump_speed``); for a throttled chamber ``tau = p V / Q``."""
     return (np.asarray(volume_m3, dtype=float) / np.asarray(effective_speed_m3_s, dtype=float))[()]
 
 
