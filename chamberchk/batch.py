@@ -172,7 +172,10 @@ def run_compare(old: Path, new: Path, formats: tuple[str, ...], out_dir: Path, f
     if _write(outcome, out_dir / stem, {old.resolve(), new.resolve()}, write_atomic, echo):
         return EXIT_INPUT
     code, worst = _flag_code(comparison.flags, fail_on)
+    _, worst_kept = _flag_code(comparison.remaining_flags, fail_on)
     if not quiet:
-        echo(f"{old} -> {new}: {len(comparison.crossings)} regime crossing(s), worst flag "
-             f"{worst or 'none'}; wrote {', '.join(f'{stem}.{f}' for f in formats)} in {out_dir}")
+        echo(f"{old} -> {new}: {len(comparison.crossings)} regime crossing(s), worst new flag "
+             f"{worst or 'none'}, worst flag kept from the old revision {worst_kept or 'none'}, "
+             f"{len(comparison.resolved_flags)} flag(s) cleared; wrote "
+             f"{', '.join(f'{stem}.{f}' for f in formats)} in {out_dir}")
     return code

@@ -66,7 +66,9 @@ class Comparison:
     steps: list[StepPair]
     feature_changes: list[dict]
     chamber_changes: list[Change]
-    flags: list[Flag]
+    flags: list[Flag]           # regime crossings and flags the new revision introduces
+    resolved_flags: list[Flag] = field(default_factory=list)    # old flags the change cleared
+    remaining_flags: list[Flag] = field(default_factory=list)   # new-revision flags also in old
     gas_cautions: list[dict] = field(default_factory=list)
     regime_bounds: dict = field(default_factory=dict)
 
@@ -134,10 +136,13 @@ def compare(old_recipe: Recipe, old: Evaluation, new_recipe: Recipe, new: Evalua
             ) -> Comparison:
     """Everything that changed between two revisions, regime crossings first."""
     pairs, crossings, flags = [], [], []
+    new_to_old_step = {}
     for i, j, how in match_steps([s.name for s in old_recipe.steps],
                                  [s.name for s in new_recipe.steps]):
         os_ = old.steps[i] if i is not None else None
         ns_ = new.steps[j] if j is not None else None
+        if os_ is not None and ns_ is not None:
+            new_to_old_step[ns_.name] = os_.name
         changes = []
         if i is not None and j is not None:
             a, b = old_recipe.steps[i], new_recipe.steps[j]
@@ -184,15 +189,32 @@ def compare(old_recipe: Recipe, old: Evaluation, new_recipe: Recipe, new: Evalua
                               _plain(new_recipe.chamber))]
         else:
             chamber = _changes(old_recipe.chamber, new_recipe.chamber, CHAMBER_INPUTS)
-    old_flag_keys = {(f.code, f.step, f.feature, f.message) for f in old.flags}
-    introduced = [f for f in new.flags if (f.code, f.step, f.feature, f.message)
-                  not in old_flag_keys and f.code != "gas-hazard"]
+    introduced, resolved, remaining = match_flags(old.flags, new.flags, new_to_old_step)
     return Comparison(
         chamberchk_version=__version__,
         old=_side(old), new=_side(new), crossings=crossings, steps=pairs,
         feature_changes=feature_changes, chamber_changes=chamber, flags=flags + introduced,
+        resolved_flags=resolved, remaining_flags=remaining,
         gas_cautions=list({c["gas"]: c for c in old.gas_cautions + new.gas_cautions}.values()),
         regime_bounds={"old": old.regime_bounds, "new": new.regime_bounds})
+
+
+def match_flags(old: list[Flag], new: list[Flag], new_to_old_step: dict[str, str]
+                ) -> tuple[list[Flag], list[Flag], list[Flag]]:
+    """Split flags into (introduced, resolved, remaining) by what they are about.
+
+    A flag is the same concern in both revisions when its code, its step (through the step
+    matching, so a renamed step keeps its flags) and its feature agree; the message may differ
+    because the numbers moved. Gas hazards are not changes and are left out.
+    """
+    old_key = lambda f: (f.code, f.step, f.feature)  # noqa: E731
+    new_key = lambda f: (f.code, new_to_old_step.get(f.step, f.step), f.feature)  # noqa: E731
+    old, new = ([f for f in flags if f.code != "gas-hazard"] for flags in (old, new))
+    old_keys, new_keys = {old_key(f) for f in old}, {new_key(f) for f in new}
+    introduced = [f for f in new if new_key(f) not in old_keys]
+    remaining = [f for f in new if new_key(f) in old_keys]
+    resolved = [f for f in old if old_key(f) not in new_keys]
+    return introduced, resolved, remaining
 
 
 def _side(ev: Evaluation) -> dict:

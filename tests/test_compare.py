@@ -95,6 +95,35 @@ def test_renamed_and_added_steps_through_cli(tmp_path, cli):
     assert r.returncode == 1 and "1 regime crossing" in r.stderr
 
 
+def test_flags_matched_by_code_step_and_feature(tmp_path, cli):
+    """A flag is the same concern in both revisions when code, (matched) step and feature agree,
+    even if its numbers moved: a renamed step keeps its flag, a fixed step clears it, an added
+    step introduces one. Fill time of this trench at 1 Torr is about 18 ns, so 10 ns and 5 ns
+    steps raise fill-slower-than-step and a 10 s step does not."""
+    old = BASE.format(rev="A") + step("a", duration="10 ns") + step("b", duration="10 ns")
+    new = (BASE.format(rev="B") + step("a renamed", duration="5 ns") + step("b", duration="10 s")
+           + step("c", duration="10 ns"))
+    c = run(old, new)
+    where = lambda flags: [(f.code, f.step) for f in flags]  # noqa: E731
+    assert where(c.remaining_flags) == [("fill-slower-than-step", "a renamed")]
+    assert where(c.resolved_flags) == [("fill-slower-than-step", "b")]
+    assert where(c.flags) == [("fill-slower-than-step", "c")]
+    # through the CLI: the summary names both, and the HTML lists the three groups
+    (tmp_path / "old.toml").write_text(old, encoding="utf-8")
+    (tmp_path / "new.toml").write_text(new, encoding="utf-8")
+    r = cli("compare", tmp_path / "old.toml", tmp_path / "new.toml", "--out", tmp_path,
+            "--format", "json,html", "--fail-on", "never")
+    assert r.returncode == 0, r.stderr
+    assert "worst new flag warning, worst flag kept from the old revision warning, 1 flag(s) " \
+        "cleared" in r.stderr
+    html = (tmp_path / "old__new.html").read_text(encoding="utf-8")
+    for title in ("New flags in the new revision", "Flags the change clears",
+                  "Flags present in both revisions"):
+        assert title in html
+    doc = json.loads((tmp_path / "old__new.json").read_text(encoding="utf-8"))
+    assert [f["step"] for f in doc["resolved_flags"]] == ["b"]
+
+
 def test_window_pressures_closed_form():
     """Kn p is constant (mean free path inversely proportional to pressure at fixed T and
     composition): the crossing pressure of a bound Kn_b is p Kn / Kn_b exactly."""
