@@ -76,8 +76,9 @@ def evaluate_chamber(chamber, pressure_Pa: float, temperature_K: float, molar_fl
         if e.shape == "tube" and 0.01 < kn < 10 and \
                 e.length_m / e.diameter_m < cond.KNUDSEN_FORMULA_MIN_LENGTH_OVER_DIAMETER:
             out.cautions.append(f"pumping path element {i} (tube, L/d = "
-                                f"{e.length_m / e.diameter_m:.3g}) is in transition flow, where "
-                                "Knudsen's formula is meant for long tubes (L/d >= "
+                                f"{e.length_m / e.diameter_m:.3g}, Kn {kn:.3g}) is between "
+                                "viscous and molecular flow, where Knudsen's formula is meant "
+                                "for long tubes (L/d >= "
                                 f"{cond.KNUDSEN_FORMULA_MIN_LENGTH_OVER_DIAMETER:g})")
         if not cond.molecular_transmission_tested(e):
             out.cautions.append(f"pumping path element {i} ({e.shape}) is outside the shapes "

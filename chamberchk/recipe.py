@@ -222,8 +222,11 @@ def _join(path: str, key: str) -> str:
     return f"{path}.{key}" if path else key
 
 
+_TYPE_WORDS = {float: "number", str: "text", list: "array of text", bool: "true/false"}
+
+
 def _kind(value: Any) -> str:
-    names = {bool: "true/false", int: "a bare number", float: "a bare number", str: "text",
+    names = {bool: "true/false", int: "the number", float: "the number", str: "text",
              list: "an array", dict: "a table"}
     if isinstance(value, (datetime.date, datetime.time)):
         return f"a TOML date/time {value.isoformat()}"
@@ -275,7 +278,7 @@ def _load_gases(w: _Walker, doc: dict, rejected: set[str]) -> dict[str, Gas]:
         for name, (typ, required) in GAS_FIELDS.items():
             if name not in row:
                 if required:
-                    w.errors.add(_join(path, name), f"missing (required {typ.__name__})")
+                    w.errors.add(_join(path, name), f"missing (required {_TYPE_WORDS[typ]})")
                     ok = False
                 continue
             value = row[name]
@@ -427,9 +430,14 @@ def _load_steps(w: _Walker, doc: dict, table: GasTable, feature_ids: list[str],
     if isinstance(raw, list) and not raw:
         w.errors.add("step", "expected [[step]] entries (an array of tables)")
         return []
-    steps = []
+    steps, seen = [], set()
     for path, s in _entries(w, raw, "step", STEP_KEYS):
         name = w.text(s, "name", path, required=True)
+        if name is not None:
+            if name in seen:
+                w.errors.add(_join(path, "name"), f"duplicate step name {name!r} (names identify "
+                             "steps in reports, comparisons and --sweep)")
+            seen.add(name)
         process = w.text(s, "process", path, default="other", choices=PROCESSES)
         duration = w.quantity(s, "duration", path, "time", required=True, limit="duration")
         pressure = w.quantity(s, "pressure", path, "pressure", required=True)

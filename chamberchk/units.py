@@ -89,7 +89,8 @@ def parse_quantity(value: object, kind: str) -> float:
         raise UnitProblem(f"expected {label} with its unit such as {example}, got {value!r} "
                           "(no unit)")
     if kind == "temperature" and unit_text in ("C", "F"):
-        raise UnitProblem(f"{value!r}: here {unit_text} would be the coulomb or farad; write "
+        electric = {"C": "the coulomb", "F": "the farad"}[unit_text]
+        raise UnitProblem(f"{value!r}: here {unit_text} would be {electric}; write "
                           f"deg{unit_text} (e.g. \"350 deg{unit_text}\") or K")
     try:
         unit = ureg.Unit(unit_text)
@@ -102,6 +103,8 @@ def parse_quantity(value: object, kind: str) -> float:
             return float(quantity.to("K").magnitude * constants.k / constants.e)
         if not quantity.check(dim):
             found = _describe_dimension(quantity)
+            if kind == "pressure" and quantity.check("[magnetic_field]"):
+                found += "; T is the tesla: write Torr or mTorr"
             raise UnitProblem(f"expected {label} such as {example}, got {value!r} ({found})")
         si = quantity.to(si_unit).magnitude
     except UnitProblem:
@@ -117,4 +120,6 @@ def _describe_dimension(quantity) -> str:
             return label
     if quantity.dimensionless:
         return "dimensionless"
+    if quantity.check("[magnetic_field]"):
+        return "a magnetic flux density"
     return f"dimension {quantity.dimensionality}"

@@ -200,6 +200,11 @@ def valid_recipes(draw, max_features: int = 3, max_steps: int = 3) -> dict:
     liner = 0.5 * min(_si(f.get("bottom_width", f["width"])) for f in feats)
     doc["step"] = [draw(step(ids, extra if i == 0 else None, liner))
                    for i in range(draw(st.integers(1, max_steps)))]
+    seen = set()
+    for i, s in enumerate(doc["step"], start=1):      # step names must be unique
+        while s["name"] in seen:
+            s["name"] += f" #{i}"
+        seen.add(s["name"])
     if draw(st.booleans()):
         doc["chamber"] = draw(chamber())
     if draw(st.booleans()):
@@ -367,7 +372,7 @@ def test_found_nearly_closed_trench_then_sticking_step():
                      "pressure": "1 Pa", "temperature": "0 degC",
                      "gases": {"FUZZGAS": "1 sccm", "Ar": "0 sccm"},
                      "film": "4.6875 nm", "etch_depth": "10000 A"},
-                    {"name": "0", "process": "deposition", "duration": "0.0166667 min",
+                    {"name": "1", "process": "deposition", "duration": "0.0166667 min",
                      "pressure": "1 Pa", "temperature": "0 degC", "gases": {"Ar": "1 sccm"},
                      "sticking": 1.0}]}
     recipe = load_bytes(_toml(doc), "fuzz.toml")

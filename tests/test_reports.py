@@ -352,6 +352,17 @@ def test_demo_recipes_render_to_pdf(cli, demo_recipes, tmp_path, caplog):
 # -----------------------------------------------------------------------------------------------
 # escaping of recipe text
 
+def test_number_formatting_carries_units():
+    """Every figure prints with a unit; zero film or etch reads at feature scale."""
+    from chamberchk.report import fmt
+
+    assert fmt.length(0.0) == "0 nm"
+    assert fmt.length(2.5e-9) == "2.50 nm"
+    assert fmt.time(0.0) == "0 s" and fmt.time(1.5e-3) == "1.50 ms"
+    assert fmt.pressure(101325 / 760) == "1.00 Torr (133 Pa)"
+    assert fmt.length(None) == "n/a"
+
+
 def test_recipe_text_is_escaped_in_html_and_literal_in_pdf(tmp_path, caplog):
     """Markup and template syntax in recipe text is escaped in HTML and literal in the PDF."""
     from chamberchk.report.html import to_html

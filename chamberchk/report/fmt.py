@@ -25,11 +25,12 @@ def sig(x: float | None, digits: int = 3) -> str:
     return f"{x:.{digits - 1}e}".replace("e-0", "e-").replace("e+0", "e").replace("e+", "e")
 
 
-def _scaled(x: float | None, scales: list[tuple[float, str]]) -> str:
+def _scaled(x: float | None, scales: list[tuple[float, str]], zero_unit: str | None = None
+            ) -> str:
     if x is None:
         return "n/a"
     if x == 0:
-        return f"0 {scales[0][1]}"
+        return f"0 {zero_unit or scales[0][1]}"
     for factor, unit in scales:
         if abs(x) >= factor:
             return f"{sig(x / factor)} {unit}"
@@ -38,7 +39,8 @@ def _scaled(x: float | None, scales: list[tuple[float, str]]) -> str:
 
 
 def length(x_m):
-    return _scaled(x_m, [(1e-3, "mm"), (1e-6, "µm"), (1e-9, "nm"), (1e-10, "Å")])
+    # a zero length is a film or etch depth that a step does not have: say it at feature scale
+    return _scaled(x_m, [(1e-3, "mm"), (1e-6, "µm"), (1e-9, "nm"), (1e-10, "Å")], "nm")
 
 
 def pressure(p_pa):
