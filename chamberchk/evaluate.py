@@ -107,32 +107,47 @@ class _Geometry:
     width_m: float
     depth_m: float
     bottom_width_m: float | None
-    closed: bool = False
+    closed: bool = False            # the opening is shut: the feature leaves later steps
+    v_groove: bool = False          # a tapered bottom has closed; the walls meet in a V
 
     @classmethod
     def of(cls, f: Feature) -> "_Geometry":
         return cls(f.width_m, f.depth_m, f.bottom_width_m)
 
-    @property
-    def narrowest_m(self) -> float:
-        return self.width_m if self.bottom_width_m is None else min(self.width_m,
-                                                                    self.bottom_width_m)
-
-    def grow(self, film_m: float, etch_depth_m: float) -> bool:
-        """Apply a step's conformal film (every wall) and etch; True when this closes it.
+    def grow(self, film_m: float, etch_depth_m: float) -> str | None:
+        """Apply a step's conformal film (every wall) and etch; name what closed, if anything.
 
         A conformal film of thickness t narrows every width by 2t; the field and the bottom grow
-        by the same t, so the depth measured from the field is unchanged.
+        by the same t, so the depth measured from the field is unchanged. In a tapered feature
+        narrowing towards the bottom the width falls linearly with depth, by
+        ``(top - bottom) / depth`` per unit depth, and a film does not change that slope; once
+        the bottom width reaches zero the walls meet where the width does, so the feature goes on
+        as a V-groove that deep (``"bottom"``). A V-groove whose opening then shuts is full
+        (``"filled"``); any other feature whose opening shuts traps a void (``"opening"``).
+        Widths and depths are those of the model: a film on a sloped wall narrows the
+        horizontal width by slightly more than 2t (1/cos of the wall angle), neglected here.
         """
-        was_closed = self.closed
+        if self.closed:
+            return None
+        event = None
+        slope = None
+        if self.bottom_width_m is not None and self.bottom_width_m < self.width_m:
+            slope = (self.width_m - self.bottom_width_m) / self.depth_m
         self.width_m -= 2.0 * film_m
         if self.bottom_width_m is not None:
             self.bottom_width_m -= 2.0 * film_m
-        self.depth_m += etch_depth_m
-        # below a hundredth of an angstrom the gap is shut (and float round-off of repeated
+        # below a hundredth of an angstrom a gap is shut (and float round-off of repeated
         # film subtraction would otherwise leave a 1e-24 m sliver)
-        self.closed = self.closed or self.narrowest_m <= CLOSED_BELOW_M
-        return self.closed and not was_closed
+        if self.width_m <= CLOSED_BELOW_M:
+            self.closed = True
+            event = "filled" if self.v_groove else "opening"
+        elif self.bottom_width_m is not None and self.bottom_width_m <= CLOSED_BELOW_M:
+            self.bottom_width_m = 0.0
+            self.depth_m = self.width_m / slope
+            event = None if self.v_groove else "bottom"
+            self.v_groove = True
+        self.depth_m += etch_depth_m
+        return event
 
 
 class _Recorder:
@@ -210,9 +225,10 @@ def evaluate(recipe: Recipe) -> Evaluation:
                     "regime-shift", f"{feat.name}: {prev[1]} in step '{prev[0]}' -> {fr.regime} "
                     f"here (Kn = {kn:.3g})", step=step.name, feature=fid))
             last_regime[fid] = (step.name, fr.regime)
-            if geo.grow(step.film_m, step.etch_depth_m):
-                fr.closed = True
-                flags.append(_closure_flag(feat, geo, step))
+            event = geo.grow(step.film_m, step.etch_depth_m)
+            if event is not None:
+                fr.closed = event != "bottom"
+                flags.append(_closure_flag(feat, geo, step, event))
         result = StepResult(index, step.name, step.process, step.duration_s, step.pressure_Pa,
                             step.temperature_K, step.reactant, step.sticking, step.film_m,
                             step.etch_depth_m, species, lam, mu, features, flags,
@@ -280,17 +296,22 @@ def _gas_cautions(recipe: Recipe, gases_used: list[str]) -> list[dict]:
     return out
 
 
-def _closure_flag(feat: Feature, geo: _Geometry, step: Step) -> Flag:
-    """A feature that pinches off at its opening traps a void (critical); one whose tapered
-    bottom closes first while the opening stays open fills from the bottom up (info)."""
+def _closure_flag(feat: Feature, geo: _Geometry, step: Step, event: str) -> Flag:
+    """A feature that pinches off at its opening traps a void (critical); a tapered bottom that
+    closes first leaves a V-groove that fills from the bottom up (info), and that V-groove's
+    opening shutting is the end of the fill (info)."""
     film = f"the {step.film_m * 1e9:.3g} nm film of this step"
-    if geo.width_m > CLOSED_BELOW_M:
+    where = dict(step=step.name, feature=feat.id)
+    if event == "bottom":
         return raise_flag("feature-closes", f"{feat.name}: {film} closes the tapered feature at "
-                          "its bottom while the opening stays open: it fills from the bottom up, "
-                          "no void from this closure", step=step.name, feature=feat.id,
-                          severity="info")
+                          "its bottom while the opening stays open: it goes on as a V-groove "
+                          f"{geo.depth_m * 1e9:.3g} nm deep and fills from the bottom up, no void "
+                          "from this closure", severity="info", **where)
+    if event == "filled":
+        return raise_flag("feature-closes", f"{feat.name}: {film} closes the V-groove's opening: "
+                          "filled from the bottom up, no void", severity="info", **where)
     return raise_flag("feature-closes", f"{feat.name}: {film} closes the feature at its "
-                      "opening", step=step.name, feature=feat.id)
+                      "opening", **where)
 
 
 BOUND_NAMES = ("continuum/slip", "slip/transition", "transition/free-molecular")

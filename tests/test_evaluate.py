@@ -49,10 +49,24 @@ def test_closure_flagged_and_feature_leaves_later_steps():
 
 def test_tapered_feature_closes_at_bottom_first():
     text = HEADER + TRENCH.replace('depth = "1 um"', 'depth = "1 um"\nbottom_width = "40 nm"')
-    ev = _eval(text + _step("dep", "1 Torr", film="25 nm"))
-    flag = next(f for f in ev.flags if f.code == "feature-closes")
+    ev = _eval(text + _step("dep", "1 Torr", film="25 nm") + _step("dep2", "1 Torr", film="10 nm")
+               + _step("dep3", "1 Torr", film="20 nm") + _step("after", "1 Torr"))
+    closes = [f for f in ev.flags if f.code == "feature-closes"]
     # a V-shaped trench fills from the bottom up: no void, so information rather than critical
-    assert "bottom" in flag.message and flag.severity == "info"
+    assert [(f.step, f.severity) for f in closes] == [("dep", "info"), ("dep3", "info")]
+    assert "V-groove" in closes[0].message and "filled" in closes[1].message
+    # By hand: the width falls by (100 - 40) nm over 1 um, 0.06 per unit depth, and a film keeps
+    # that slope. After 25 nm the top is 50 nm and the walls meet 50/0.06 = 833 nm down; after
+    # 10 nm more, 30 nm and 500 nm. The V-groove stays in the steps until its opening shuts.
+    dep2, dep3 = ev.steps[1].features[0], ev.steps[2].features[0]
+    assert not ev.steps[0].features[0].closed
+    assert (dep2.width_m, dep2.bottom_width_m) == pytest.approx((50e-9, 0.0), abs=1e-18)
+    assert dep2.depth_m == pytest.approx(50e-9 / 0.06, rel=1e-12)
+    assert dep3.depth_m == pytest.approx(30e-9 / 0.06, rel=1e-12) and dep3.closed
+    assert ev.steps[3].features == []
+    # transport on the V-groove is cautioned (the taper model stops at bottom/top 0.25)
+    assert any(f.code == "model-range" and f.step == "dep2" and "bottom/top width 0" in f.message
+               for f in ev.flags)
 
 
 def test_regime_shift_between_steps():
