@@ -1,7 +1,8 @@
 """The chamber and its pumping path in one step: flow, conductance, residence, reachable pressure.
 
 Glue between a recipe's ``[chamber]`` and :mod:`chamberchk.physics.conductance`. The gas in the
-chamber and the pumping path is taken at the step's temperature and composition (mole-fraction
+chamber and the pumping path is taken at the chamber's ``wall_temperature`` (the step's
+temperature when the recipe gives none) and the step's composition (mole-fraction
 mean molar mass, Wilke mixture viscosity, mixture mean free path scaled as 1/p along the path). The residence time uses the speed a
 throttle valve leaves at the step's pressure, ``Q/p``, at most the full-open effective speed.
 """
@@ -43,6 +44,7 @@ class ChamberResult:
     reynolds_number: float | None
     elements: list[ElementResult] = field(default_factory=list)
     cautions: list[str] = field(default_factory=list)
+    gas_temperature_K: float | None = None      # of the gas in the chamber and pumping path
 
 
 def _size(e: cond.PathElement) -> str:
@@ -58,13 +60,19 @@ def _size(e: cond.PathElement) -> str:
 
 def evaluate_chamber(chamber, pressure_Pa: float, temperature_K: float, molar_flow_mol_s: float,
                      molar_mass_kg_mol: float, viscosity_Pa_s: float, mean_free_path_m: float,
-                     reactant_diffusivity_m2_s: float, bounds: RegimeBounds) -> ChamberResult:
-    """Chamber figures of one step (``chamber`` is a :class:`chamberchk.recipe.Chamber`)."""
+                     gap_mean_free_path_m: float, reactant_diffusivity_m2_s: float,
+                     bounds: RegimeBounds) -> ChamberResult:
+    """Chamber figures of one step (``chamber`` is a :class:`chamberchk.recipe.Chamber`).
+
+    ``temperature_K``, ``viscosity_Pa_s`` and ``mean_free_path_m`` describe the gas in the
+    chamber and pumping path (at the wall temperature when the recipe gives one); the wafer gap
+    uses the step's own mean free path and reactant diffusivity.
+    """
     q = float(cond.throughput_from_molar_flow(molar_flow_mol_s, temperature_K))
     out = ChamberResult(molar_flow_mol_s, q, None, None, None, None, None, None, None, None,
-                        None, None, None)
+                        None, None, None, gas_temperature_K=temperature_K)
     if chamber.gap_m is not None:
-        out.gap_knudsen_number = float(knudsen_number(mean_free_path_m, chamber.gap_m))
+        out.gap_knudsen_number = float(knudsen_number(gap_mean_free_path_m, chamber.gap_m))
         out.gap_regime = regime(out.gap_knudsen_number, bounds)
         out.gap_diffusion_time_s = chamber.gap_m ** 2 / reactant_diffusivity_m2_s
     args = (temperature_K, molar_mass_kg_mol, viscosity_Pa_s)

@@ -20,7 +20,7 @@ STEP_INPUTS = (("process", "text"), ("duration_s", "time"), ("pressure_Pa", "pre
 FEATURE_INPUTS = (("shape", "text"), ("width_m", "length"), ("depth_m", "length"),
                   ("bottom_width_m", "length"))
 CHAMBER_INPUTS = (("volume_m3", "volume"), ("gap_m", "length"), ("pump_speed_m3_s", "speed"),
-                  ("path", "text"))
+                  ("path", "text"), ("wall_temperature_K", "temperature"))
 #: per-feature results compared
 FEATURE_RESULTS = ("knudsen_number", "regime", "fill_time_99_s", "bottom_flux_ratio",
                    "dose_margin", "ion_to_neutral_bottom_over_top", "window_pressures_Pa",

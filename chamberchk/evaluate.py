@@ -161,24 +161,27 @@ class _Recorder:
             self.ids.setdefault(i, None)
 
 
-def _species(step: Step, recipe: Recipe, rec: _Recorder, flags: list[Flag]) -> tuple[
-        list[SpeciesResult], float, float]:
+def _species(step: Step, recipe: Recipe, rec: _Recorder, flags: list[Flag],
+             temperature_K: float | None = None) -> tuple[list[SpeciesResult], float, float]:
+    """Each gas's figures in the step's mixture, the mixture mean free path and viscosity, at
+    the step's temperature or at ``temperature_K`` (the chamber wall)."""
+    t = step.temperature_K if temperature_K is None else temperature_K
     fractions = step.mole_fractions
     gases = [recipe.gases.get(g) for g in fractions]
     x = np.array(list(fractions.values()))
     m = np.array([g.molar_mass_kg_mol for g in gases])
-    t_star = step.temperature_K / np.array([g.epsilon_K for g in gases])
-    mu = np.atleast_1d(kinetics.viscosity(step.temperature_K, m, [g.sigma_m for g in gases],
+    t_star = t / np.array([g.epsilon_K for g in gases])
+    mu = np.atleast_1d(kinetics.viscosity(t, m, [g.sigma_m for g in gases],
                                           [g.epsilon_K for g in gases]))
-    lam = kinetics.species_mean_free_paths(x, step.pressure_Pa, step.temperature_K, m, mu)
-    v = np.atleast_1d(kinetics.mean_speed(step.temperature_K, m))
+    lam = kinetics.species_mean_free_paths(x, step.pressure_Pa, t, m, mu)
+    v = np.atleast_1d(kinetics.mean_speed(t, m))
     rec.use("mean-speed", "viscosity-ce", "mfp-viscosity", "mfp-mixture")
     for g, ts in zip(gases, t_star):
         if not collision.in_range(ts):
             lo, hi = collision.T_STAR_RANGE
             flags.append(raise_flag(
-                "model-range", f"{g.key}: reduced temperature T* = {ts:.3g} is outside the "
-                f"{lo:g}-{hi:g} range of the collision-integral fit", step=step.name))
+                "model-range", f"{g.key}: reduced temperature T* = {ts:.3g} at {t:.4g} K is "
+                f"outside the {lo:g}-{hi:g} range of the collision-integral fit", step=step.name))
     species = [SpeciesResult(g.key, float(xi), float(vi), float(mi), float(li))
                for g, xi, vi, mi, li in zip(gases, x, v, mu, lam)]
     mixture_mu = kinetics.mixture_viscosity(x, m, mu)
@@ -378,10 +381,14 @@ def _transport(fr: FeatureResult, feat: Feature, step: Step, gas: StepGas, recip
 def _chamber(step: Step, recipe: Recipe, lam: float, mu: float, gas: StepGas, rec: _Recorder,
              flags: list[Flag]) -> ChamberResult:
     settings = recipe.settings
-    c = evaluate_chamber(recipe.chamber, step.pressure_Pa, step.temperature_K,
+    t_wall = recipe.chamber.wall_temperature_K
+    lam_wall, mu_wall = (lam, mu) if t_wall is None else \
+        _species(step, recipe, rec, flags, t_wall)[1:]
+    c = evaluate_chamber(recipe.chamber, step.pressure_Pa,
+                         step.temperature_K if t_wall is None else t_wall,
                          step.total_flow_mol_s, mixture_molar_mass(step.mole_fractions,
                                                                    recipe.gases),
-                         mu, lam, gas.molecular_diffusivity_m2_s, settings.bounds)
+                         mu_wall, lam_wall, lam, gas.molecular_diffusivity_m2_s, settings.bounds)
     rec.use("throughput")
     if c.path_conductance_m3_s is not None:
         rec.use("conductance-molecular", "conductance-viscous", "conductance-transition",

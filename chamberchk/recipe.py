@@ -99,6 +99,7 @@ class Chamber:
     gap_m: float | None
     pump_speed_m3_s: float | None
     path: tuple = ()          # of physics.conductance.PathElement
+    wall_temperature_K: float | None = None   # gas in the chamber and path; None: the step's
 
 
 @dataclass(frozen=True)
@@ -248,7 +249,7 @@ STEP_KEYS = ("name", "process", "duration", "pressure", "temperature", "gases", 
              "sticking", "film", "etch_depth", "features", "plasma")
 PLASMA_KEYS = ("electron_density", "electron_temperature", "sheath_voltage", "ion",
                "ion_cross_section")
-CHAMBER_KEYS = ("volume", "gap", "pump_speed", "path")
+CHAMBER_KEYS = ("volume", "gap", "pump_speed", "path", "wall_temperature")
 SETTINGS_KEYS = ("continuum_max", "slip_max", "transition_max", "site_density",
                  "coverage_warning", "coverage_critical", "residence_times",
                  "neutral_starved_ratio")
@@ -526,6 +527,7 @@ def _load_chamber(w: _Walker, doc: dict) -> Chamber | None:
     volume = w.quantity(c, "volume", "chamber", "volume", required=True)
     gap = w.quantity(c, "gap", "chamber", "length", limit="chamber_length")
     speed = w.quantity(c, "pump_speed", "chamber", "speed", limit="pump_speed")
+    wall = w.quantity(c, "wall_temperature", "chamber", "temperature")
     raw_path = c.get("path", [])
     entries = list(_entries(w, raw_path, "chamber.path"))
     elements = [_load_element(w, e, path) for path, e in entries]
@@ -536,7 +538,7 @@ def _load_chamber(w: _Walker, doc: dict) -> Chamber | None:
         ok = False
     if volume is None or not ok:
         return None
-    return Chamber(volume, gap, speed, tuple(elements))
+    return Chamber(volume, gap, speed, tuple(elements), wall)
 
 
 def _load_element(w: _Walker, e: dict, path: str):

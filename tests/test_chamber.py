@@ -121,6 +121,38 @@ def test_throttled_residence_time_is_p_v_over_q():
     assert c.throttled_pump_speed_m3_s == pytest.approx(c.effective_pump_speed_m3_s, rel=1e-12)
 
 
+def test_wall_temperature_sets_the_gas_in_chamber_and_path():
+    """A cold-wall chamber: the gas the pump sees is at the wall temperature, not the wafer's.
+    With the step at 20 degC and the wall at 20 degC the figures equal a run without the field;
+    a 400 degC step with a 20 degC wall gives the same throughput Q = n R T_wall (ideal gas) and
+    the same molecular aperture conductance (A v/4, v at T_wall) as the 20 degC step, while the
+    wafer gap keeps the step's own mean free path (Kn scales with T at fixed p, to first order
+    in the viscosity's temperature dependence: only checked to grow)."""
+    base = run(pressure="0.01 mTorr", flow="0.1 sccm", path=APERTURE).steps[0].chamber
+    same = run(pressure="0.01 mTorr", flow="0.1 sccm",
+               path='wall_temperature = "20 degC"\n' + APERTURE).steps[0].chamber
+    assert same.total_flow_Pa_m3_s == pytest.approx(base.total_flow_Pa_m3_s, rel=1e-12)
+    assert same.path_conductance_m3_s == pytest.approx(base.path_conductance_m3_s, rel=1e-12)
+    hot_text = HEAD.format(pressure="0.01 mTorr", flow="0.1 sccm", speed="500 L/s",
+                           duration="60 s", path='wall_temperature = "20 degC"\n' + APERTURE)
+    hot = evaluate(load_bytes(hot_text.replace('temperature = "20 degC"\ngases',
+                                               'temperature = "400 degC"\ngases')
+                              .encode(), "c.toml")).steps[0]
+    assert hot.temperature_K == pytest.approx(673.15)
+    c = hot.chamber
+    assert c.gas_temperature_K == pytest.approx(293.15)
+    assert c.total_flow_Pa_m3_s == pytest.approx(base.total_flow_Pa_m3_s, rel=1e-12)
+    assert c.path_conductance_m3_s == pytest.approx(base.path_conductance_m3_s, rel=1e-9)
+    assert c.gap_knudsen_number > 2 * base.gap_knudsen_number
+    # without the field the 400 degC step pumps 673/293 times the pV throughput
+    no_wall = evaluate(load_bytes(hot_text.replace('wall_temperature = "20 degC"\n', '')
+                                  .replace('temperature = "20 degC"\ngases',
+                                           'temperature = "400 degC"\ngases').encode(),
+                                  "c.toml")).steps[0].chamber
+    assert no_wall.total_flow_Pa_m3_s == pytest.approx(
+        base.total_flow_Pa_m3_s * 673.15 / 293.15, rel=1e-9)
+
+
 def test_short_step_against_residence_time():
     ev = run(duration="10 ms")
     assert any(f.code == "short-residence" for f in ev.flags)
