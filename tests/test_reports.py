@@ -352,6 +352,24 @@ def test_demo_recipes_render_to_pdf(cli, demo_recipes, tmp_path, caplog):
 # -----------------------------------------------------------------------------------------------
 # escaping of recipe text
 
+def test_pressure_axes_in_torr_and_window_within_the_accepted_pressures(plain):
+    """Charts put pressure in Torr like the tables, and the process window stops at the decade
+    around the largest pressure a recipe may ask for (10 bar = 7500 Torr -> 1e4 Torr), even where
+    a narrow feature's continuum bound lies far above it."""
+    from chamberchk.report.charts import PRESSURE_LABEL, process_window, regime_map
+
+    doc = plain["doc"]
+    window = process_window(doc)
+    assert PRESSURE_LABEL == "pressure (Torr)" and PRESSURE_LABEL in window["svg"]
+    assert "(Pa)" not in window["svg"]
+    assert PRESSURE_LABEL in regime_map(doc, (0.01, 0.1, 10.0))["svg"]
+    highest = max(p for s in doc["steps"] for f in s["features"]
+                  for p in f["window_pressures_Pa"])
+    assert highest > 1e6            # the recipe has a bound above 10 bar...
+    ticks = [float(t) for t in re.findall(r'text-anchor="middle">([-0-9.e]+)<', window["svg"])]
+    assert ticks and max(ticks) <= 1e4      # ...which the axis does not reach
+
+
 def test_number_formatting_carries_units():
     """Every figure prints with a unit; zero film or etch reads at feature scale."""
     from chamberchk.report import fmt

@@ -10,6 +10,8 @@ import math
 from dataclasses import dataclass, field
 from html import escape
 
+from ..recipe import LIMITS
+
 WIDTH, HEIGHT = 640, 270
 LEFT, RIGHT, TOP, BOTTOM = 64, 150, 18, 44
 MARKERS = ("circle", "square", "triangle", "diamond", "cross")
@@ -17,6 +19,15 @@ DASHES = ("", "6 3", "2 3", "8 3 2 3", "1 2")
 INK = ("#1d232a", "#3f5f7a", "#6b4f1d", "#555555", "#7a1020")
 BANDS = {"continuum": "#dfe7ef", "slip": "#eef2f6", "transition": "#f6f1e4",
          "free-molecular": "#ffffff"}
+
+
+#: Pressure axes are in Torr, the unit recipes and tables lead with.
+TORR_PA = 101325.0 / 760.0
+PRESSURE_LABEL = "pressure (Torr)"
+
+
+def _torr(p_pa: float) -> float:
+    return p_pa / TORR_PA
 
 
 def _num(x: float) -> str:
@@ -274,11 +285,11 @@ def _feature_names(doc: dict) -> dict[str, str]:
 def regime_map(doc: dict, bounds: tuple[float, float, float]) -> dict | None:
     """Knudsen number of each feature against pressure, with the regime bands; each step's
     point sits on its line Kn proportional to 1/p (fixed gas, temperature and width)."""
-    points = [(s["pressure_Pa"], f["knudsen_number"], s["index"], f["id"])
+    points = [(_torr(s["pressure_Pa"]), f["knudsen_number"], s["index"], f["id"])
               for s in doc["steps"] for f in s["features"]]
     if not points:
         return None
-    x = log_axis([p for p, *_ in points], "pressure (Pa)", pad=1.0)
+    x = log_axis([p for p, *_ in points], PRESSURE_LABEL, pad=1.0)
     y = log_axis([kn for _, kn, *_ in points] + list(bounds), "Knudsen number", pad=0.5)
     c = Chart(x, y, "Regime map")
     edges = [y.lo, *bounds, y.hi]
@@ -360,16 +371,20 @@ def process_window(doc: dict) -> dict | None:
     rows = [(s, f) for s in doc["steps"] for f in s["features"] if f.get("window_pressures_Pa")]
     if not rows:
         return None
-    bounds = [p for _, f in rows for p in f["window_pressures_Pa"]] + \
-        [s["pressure_Pa"] for s, _ in rows]
-    x = log_axis(bounds, "pressure (Pa)", pad=0.5)
+    bounds = [_torr(p) for _, f in rows for p in f["window_pressures_Pa"]] + \
+        [_torr(s["pressure_Pa"]) for s, _ in rows]
+    x = log_axis(bounds, PRESSURE_LABEL, pad=0.5)
+    # no wider than the decades around the pressures a recipe may ask for (LIMITS["pressure"])
+    lo_pa, hi_pa, _ = LIMITS["pressure"]
+    x = Axis(max(x.lo, 10.0 ** math.floor(math.log10(_torr(lo_pa)))),
+             min(x.hi, 10.0 ** math.ceil(math.log10(_torr(hi_pa)))), True, x.label)
     n = len(rows)
     c = Chart(x, Axis(0.0, float(n), False, ""), "Process window")
     names = ("continuum", "slip", "transition", "free-molecular")
     for i, (s, f) in enumerate(rows):
         y0, y1 = c.py(n - i - 0.15), c.py(n - i - 0.85)
         # Kn falls as pressure rises: free-molecular at the low-pressure end
-        edges = [x.lo, *sorted(f["window_pressures_Pa"]), x.hi]
+        edges = [x.lo, *sorted(_torr(p) for p in f["window_pressures_Pa"]), x.hi]
         for name, lo, hi in zip(reversed(names), edges, edges[1:]):
             lo, hi = max(lo, x.lo), min(hi, x.hi)
             if hi <= lo:
@@ -378,7 +393,7 @@ def process_window(doc: dict) -> dict | None:
                            f'width="{_num(c.px(hi) - c.px(lo))}" height="{_num(y1 - y0)}" '
                            f'fill="{BANDS[name]}" stroke="#8a96a3" stroke-width="0.6">'
                            f'<title>{escape(name)}</title></rect>')
-        px = c.px(s["pressure_Pa"])
+        px = c.px(_torr(s["pressure_Pa"]))
         c.parts.append(f'<line x1="{_num(px)}" x2="{_num(px)}" y1="{_num(y0 - 2)}" '
                        f'y2="{_num(y1 + 2)}" stroke="#111" stroke-width="2.5"/>')
         c.parts.append(f'<text x="{LEFT + 3}" y="{_num((y0 + y1) / 2 + 3)}" font-size="8">'
@@ -389,8 +404,9 @@ def process_window(doc: dict) -> dict | None:
             "caption": "Each row is a step and feature: shaded spans show the pressures at which "
                        "that feature would be continuum (darkest), slip, transition or "
                        "free-molecular (white) at the step's gas and temperature; the black bar is "
-                       "the step's pressure. The JSON gives the crossing pressures and the factor "
-                       "to the nearest bound.",
+                       "the step's pressure. The axis stops at the pressures a recipe may ask "
+                       "for (1e-7 Pa to 10 bar). The JSON gives the crossing pressures and the "
+                       "factor to the nearest bound.",
             "svg": svg}
 
 
@@ -418,8 +434,9 @@ def sweep_charts(doc: dict) -> list[dict]:
     if not sweep:
         return []
     key = "values_Pa" if sweep["parameter"] == "pressure" else "values_K"
-    xs = sweep[key]
-    label = "pressure (Pa)" if key == "values_Pa" else "temperature (K)"
+    scale = _torr if key == "values_Pa" else float
+    xs = [scale(v) for v in sweep[key]]
+    label = PRESSURE_LABEL if key == "values_Pa" else "temperature (K)"
     out = []
     for field, title, ylabel, log in (
             ("knudsen_number", "Knudsen number", "Knudsen number", True),
@@ -433,7 +450,8 @@ def sweep_charts(doc: dict) -> list[dict]:
         c = Chart(x, y, title)
         for k, f in enumerate(sweep["features"]):
             c.line([(a, b) for a, b in zip(xs, f[field]) if b is not None], k)
-        sx = c.px(sweep["step_value"]) if x.lo <= sweep["step_value"] <= x.hi else None
+        at = scale(sweep["step_value"])
+        sx = c.px(at) if x.lo <= at <= x.hi else None
         if sx is not None:
             c.parts.append(f'<line x1="{_num(sx)}" x2="{_num(sx)}" y1="{TOP}" '
                            f'y2="{_num(TOP + c.ph)}" stroke="#111" stroke-dasharray="4 2"/>')
