@@ -44,6 +44,8 @@ class FeatureResult:
     knudsen_number: float
     regime: str
     closed: bool = False
+    reactant_knudsen_number: float | None = None   # the reactant's own mean free path / width
+    reactant_regime: str | None = None
     window_pressures_Pa: list[float] = field(default_factory=list)
     nearest_bound_factor: float | None = None
     nearest_bound: str | None = None
@@ -218,6 +220,7 @@ def evaluate(recipe: Recipe) -> Evaluation:
                                geo.bottom_width_m, geo.depth_m / geo.width_m, kn,
                                regime(kn, bounds))
             _window(fr, step.pressure_Pa, bounds)
+            _reactant_regime(fr, feat, step, species, bounds, flags)
             _transport(fr, feat, step, gas, recipe, rec, flags)
             if sheath is not None:
                 _ions(fr, feat, step, sheath, recipe, flags)
@@ -329,6 +332,25 @@ def _window(fr: FeatureResult, pressure_Pa: float, bounds) -> None:
     fr.window_pressures_Pa = [float(p) for p in pressures]
     fr.nearest_bound_factor = float(factors[k])
     fr.nearest_bound = BOUND_NAMES[k]
+
+
+def _reactant_regime(fr: FeatureResult, feat: Feature, step: Step,
+                     species: list[SpeciesResult], bounds, flags: list[Flag]) -> None:
+    """The reactant's own Knudsen number (its mean free path in the mixture over the width).
+
+    Regime labels follow the mixture's mean free path (the mole-fraction mean of the species
+    values); a heavy precursor diluted in a light carrier has a much shorter mean free path of
+    its own, so its regime can differ. That is said with an info flag; diffusivities and fill
+    times already use the reactant's own figures.
+    """
+    lam = next(g.mean_free_path_m for g in species if g.gas == step.reactant)
+    fr.reactant_knudsen_number = float(knudsen_number(lam, fr.width_m))
+    fr.reactant_regime = regime(fr.reactant_knudsen_number, bounds)
+    if fr.reactant_regime != fr.regime:
+        flags.append(raise_flag(
+            "reactant-regime", f"{feat.name}: {step.reactant} alone has Kn "
+            f"{fr.reactant_knudsen_number:.3g} ({fr.reactant_regime}), the mixture Kn "
+            f"{fr.knudsen_number:.3g} ({fr.regime})", step=step.name, feature=feat.id))
 
 
 def _step_gas(step: Step, recipe: Recipe, species: list[SpeciesResult]) -> StepGas:

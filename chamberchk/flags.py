@@ -32,6 +32,12 @@ RULES: dict[str, Rule] = {
         "critical",
         "The film deposited so far closes the feature; later steps cannot reach below the "
         "pinch-off point and a void or seam is likely."),
+    "reactant-regime": Rule(
+        "info",
+        "The reactant's own mean free path in this mixture puts it in another regime than the "
+        "mixture as a whole (a heavy precursor in a light carrier, or the reverse). Regime "
+        "labels and the choice of coverage model follow the mixture; diffusivities and fill "
+        "times use the reactant's own figures."),
     "gas-hazard": Rule(
         "info",
         "Hazardous gas in use: follow the supplier's safety data sheet and site gas-handling "

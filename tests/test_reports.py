@@ -464,8 +464,9 @@ def test_date_option_goes_to_the_html_header_only_when_given(cli, write_recipe, 
 UNIT_SUFFIXES = ("Pa_m3_s", "m2_s", "m3_s", "m_s", "Pa_s", "mol_s", "m2", "m3", "m", "Pa", "K",
                  "s", "kg", "eV", "V", "deg")
 # Dimensionless float fields named in README "Outputs" / DESIGN.md "Outputs".
-DOCUMENTED_DIMENSIONLESS = {"knudsen_number", "aspect_ratio", "transmission_probability",
-                            "mole_fraction", "sticking", "bottom_flux_ratio"}
+DOCUMENTED_DIMENSIONLESS = {"knudsen_number", "reactant_knudsen_number", "aspect_ratio",
+                            "transmission_probability", "mole_fraction", "sticking",
+                            "bottom_flux_ratio"}
 # Dimensionless by construction in evaluate.py / plasma.py but NOT named in README or DESIGN.md
 # (listed in the helper's report so the docs can catch up): ratios and factors.
 UNDOCUMENTED_DIMENSIONLESS = {

@@ -80,6 +80,43 @@ def test_ald_pulse_is_judged_by_dose_not_by_bare_surface_coverage():
     assert not codes(long_) & {"dose-short", "poor-bottom-coverage"}
 
 
+HEAVY_IN_LIGHT = '''format = 1
+[recipe]
+name = "p"
+[[feature]]
+id = "t"
+shape = "trench"
+width = "100 nm"
+depth = "1 um"
+[[step]]
+name = "s"
+duration = "10 s"
+pressure = "{p}"
+temperature = "400 degC"
+gases = {{ WF6 = "10 sccm", H2 = "1 slm" }}
+reactant = "WF6"
+'''
+
+
+def test_reactant_regime_beside_the_mixture_regime():
+    """WF6 diluted 1:100 in H2: the mixture mean free path (mole-fraction mean, DESIGN) is about
+    twenty times WF6's own in that mixture (hard-sphere mixture form, Bird 1994, tested in
+    test_kinetics.py), so at 40 Torr the 100 nm trench is free-molecular for the mixture and
+    transition for WF6 alone. The reactant's Kn is its species mean free path over the width,
+    and an info flag says when the two regimes differ (not at 10 Torr, where both are
+    free-molecular)."""
+    ev = _eval(HEAVY_IN_LIGHT.format(p="40 Torr"))
+    step, f = ev.steps[0], ev.steps[0].features[0]
+    lam = next(g.mean_free_path_m for g in step.species if g.gas == "WF6")
+    assert f.reactant_knudsen_number == pytest.approx(lam / 100e-9, rel=1e-12)
+    assert (f.regime, f.reactant_regime) == ("free-molecular", "transition")
+    flag = next(x for x in ev.flags if x.code == "reactant-regime")
+    assert flag.severity == "info" and "WF6 alone has Kn" in flag.message
+    ev = _eval(HEAVY_IN_LIGHT.format(p="10 Torr"))
+    assert ev.steps[0].features[0].reactant_regime == "free-molecular"
+    assert not any(x.code == "reactant-regime" for x in ev.flags)
+
+
 def test_molecular_diffusivity_in_the_step_by_hand():
     """TMA in N2 by Chapman-Enskog (Poling et al. 2001 eq. 11-3.2) with the table's LJ values;
     Blanc's law with a single partner is the binary value."""
