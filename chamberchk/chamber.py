@@ -2,9 +2,10 @@
 
 Glue between a recipe's ``[chamber]`` and :mod:`chamberchk.physics.conductance`. The gas in the
 chamber and the pumping path is taken at the chamber's ``wall_temperature`` (the step's
-temperature when the recipe gives none) and the step's composition (mole-fraction
-mean molar mass, Wilke mixture viscosity, mixture mean free path scaled as 1/p along the path). The residence time uses the speed a
-throttle valve leaves at the step's pressure, ``Q/p``, at most the full-open effective speed.
+temperature when the recipe gives none) and the step's composition (mole-fraction mean molar
+mass, Wilke mixture viscosity, mixture mean free path scaled as 1/p along the path). The
+residence time uses the speed a throttle valve leaves at the step's pressure, ``Q/p``, at most
+the full-open effective speed.
 """
 
 from __future__ import annotations

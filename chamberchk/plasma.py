@@ -37,7 +37,7 @@ class Plasma:
 class SheathResult:
     ion: str
     ion_mass_kg: float
-    debye_length_m: float                   # at the sheath edge (density 0.61 n), as the Child law uses
+    debye_length_m: float            # at the sheath edge (density 0.61 n), as the Child law uses
     bohm_speed_m_s: float
     ion_flux_per_m2_per_s: float
     sheath_thickness_m: float
